@@ -1,0 +1,623 @@
+//! The command-line interface: clap structs, file reading and writing, stdout and stderr.
+//!
+//! This is the only module that touches files and the terminal. Arguments are parsed into plain
+//! values, checked into domain types, then handed to the library; results are rendered by one
+//! `match` on the format.
+
+use crate::error::{Error, Result};
+use crate::geometry::{geometry, rule_of_thumb_va, CoreDims, Shape};
+use crate::job::{parse_job, Job};
+use crate::plan::{check_windable, plan, Plan};
+use crate::probe::{read_sweep, SweepPoint};
+use crate::render::{self, Charset};
+use clap::{Parser, Subcommand, ValueEnum};
+use std::io::{IsTerminal, Read, Write};
+use std::path::{Path, PathBuf};
+
+/// The bundled demo job.
+pub const DEMO_JOB: &str = include_str!("../examples/garage_charger.toml");
+
+/// Largest text file read (job, sweep, shelf import), bytes.
+pub const MAX_READ_BYTES: u64 = 16 << 20;
+
+#[derive(Debug, Parser)]
+#[command(
+    name = "ironwind",
+    version = version_text(),
+    about = "Plans the rewinding of salvaged laminated transformer cores: turns, wire, layers, fit, losses, heating.",
+    after_help = "Examples:\n  ironwind demo\n  ironwind plan examples/garage_charger.toml --format json\n  ironwind core --tongue 32 --stack 40 --window 16x48\n  ironwind wire --amps 12 --density 3"
+)]
+struct Cli {
+    /// Plain ASCII output (no box drawing, no symbols)
+    #[arg(long, global = true)]
+    ascii: bool,
+    #[command(subcommand)]
+    command: Command,
+}
+
+const fn version_text() -> &'static str {
+    concat!(
+        env!("CARGO_PKG_VERSION"),
+        " (data tables: wire_awg 1, wire_metric 1, steel 1)"
+    )
+}
+
+#[derive(Debug, Subcommand)]
+enum Command {
+    /// Plan every winding of a job file: turns, wire, layers, fit, losses, heating, verdict
+    #[command(
+        after_help = "Example:\n  ironwind plan examples/garage_charger.toml\n  ironwind plan job.toml --format json > plan.json"
+    )]
+    Plan {
+        /// The job file (TOML)
+        job: PathBuf,
+        /// Output format
+        #[arg(long, value_enum, default_value_t = PlanFormat::Text)]
+        format: PlanFormat,
+    },
+    /// Geometry of a measured core, with the rule-of-thumb rating
+    #[command(
+        allow_negative_numbers = true,
+        after_help = "Example:\n  ironwind core --tongue 32 --stack 40 --window 16x48\n  ironwind core --tongue \"1.25 in\" --stack \"1.5 in\" --window 0.625inx1.875in --shape ei"
+    )]
+    Core {
+        /// Tongue (centre leg) width, mm or with a unit ("1.25 in")
+        #[arg(long)]
+        tongue: String,
+        /// Stack depth, mm or with a unit
+        #[arg(long)]
+        stack: String,
+        /// One window, WIDTHxHEIGHT in mm (e.g. 16x48)
+        #[arg(long)]
+        window: String,
+        /// Lamination shape
+        #[arg(long, value_enum, default_value_t = ShapeArg::Ei)]
+        shape: ShapeArg,
+        /// Stacking factor, > 0.5 and ≤ 1
+        #[arg(long, default_value_t = 0.95)]
+        stacking: f64,
+        /// Output format
+        #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
+        format: SimpleFormat,
+    },
+    /// Look up the wire tables, or choose a size and strands for a current
+    #[command(
+        allow_negative_numbers = true,
+        after_help = "Examples:\n  ironwind wire --list --system awg\n  ironwind wire --amps 12 --density 3 --max-strand 2.0"
+    )]
+    Wire {
+        /// Print the whole table of the system
+        #[arg(long, conflicts_with = "amps")]
+        list: bool,
+        /// Current to carry, A RMS
+        #[arg(long)]
+        amps: Option<f64>,
+        /// Current density, A/mm² (default 3.0)
+        #[arg(long, default_value_t = 3.0)]
+        density: f64,
+        /// Wire system
+        #[arg(long, value_enum, default_value_t = SystemArg::Metric)]
+        system: SystemArg,
+        /// Thickest single strand before going to parallel strands, mm
+        #[arg(long, default_value_t = 2.0)]
+        max_strand: f64,
+        /// Enamel grade: 1 (AWG single build) or 2 (AWG heavy build)
+        #[arg(long, default_value_t = 2)]
+        grade: u8,
+        /// Output format
+        #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
+        format: SimpleFormat,
+    },
+    /// Plan the bundled example job end to end (no files needed)
+    #[command(after_help = "Example:\n  ironwind demo\n  ironwind demo --format json")]
+    Demo {
+        /// Output format
+        #[arg(long, value_enum, default_value_t = PlanFormat::Text)]
+        format: PlanFormat,
+    },
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum PlanFormat {
+    Text,
+    Json,
+    Csv,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum SimpleFormat {
+    Text,
+    Json,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum ShapeArg {
+    Ei,
+    Ui,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum SystemArg {
+    Metric,
+    Awg,
+}
+
+/// Runs the command line and returns the process exit code.
+pub fn main() -> i32 {
+    let cli = match Cli::try_parse() {
+        Ok(c) => c,
+        Err(e) => {
+            let code = match e.kind() {
+                clap::error::ErrorKind::DisplayHelp | clap::error::ErrorKind::DisplayVersion => 0,
+                _ => 2,
+            };
+            let _ = e.print();
+            return code;
+        }
+    };
+    let stdout = std::io::stdout();
+    let mut out = std::io::BufWriter::new(stdout.lock());
+    let result = run(cli, &mut out).and_then(|code| {
+        out.flush()
+            .map_err(|e| Error::io("stdout", "cannot write", &e))?;
+        Ok(code)
+    });
+    match result {
+        Ok(code) => code,
+        Err(Error::Io { path, .. }) if path == "stdout" && broken_pipe_seen() => 0,
+        Err(e) => {
+            eprintln!("error: {e}");
+            e.exit_code()
+        }
+    }
+}
+
+thread_local! {
+    static BROKEN_PIPE: std::cell::Cell<bool> = const { std::cell::Cell::new(false) };
+}
+
+fn broken_pipe_seen() -> bool {
+    BROKEN_PIPE.with(|b| b.get())
+}
+
+/// Maps a write error on stdout: a closed pipe (`| head`) is not a failure.
+fn out_err(e: std::io::Error) -> Error {
+    if e.kind() == std::io::ErrorKind::BrokenPipe {
+        BROKEN_PIPE.with(|b| b.set(true));
+    }
+    Error::io("stdout", "cannot write", &e)
+}
+
+fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
+    let cs = if cli.ascii {
+        Charset::Ascii
+    } else {
+        Charset::Unicode
+    };
+    match cli.command {
+        Command::Plan { job, format } => {
+            let (job, origin) = load_job(&job)?;
+            let p = plan(&job);
+            check_windable(&p, &origin)?;
+            write_plan(out, &p, format, cs)?;
+        }
+        Command::Demo { format } => {
+            let job = parse_job(DEMO_JOB, "demo job", &|_| {
+                Err(Error::Failed("the demo has no sweep".into()))
+            })?;
+            let p = plan(&job);
+            if format == PlanFormat::Text {
+                writeln!(
+                    out,
+                    "The bundled example (examples/garage_charger.toml), planned end to end.\n"
+                )
+                .map_err(out_err)?;
+            }
+            write_plan(out, &p, format, cs)?;
+        }
+        Command::Core {
+            tongue,
+            stack,
+            window,
+            shape,
+            stacking,
+            format,
+        } => {
+            let dims = core_from_flags(&tongue, &stack, &window, shape, stacking)?;
+            write_core(out, &dims, format, cs)?;
+        }
+        Command::Wire {
+            list,
+            amps,
+            density,
+            system,
+            max_strand,
+            grade,
+            format,
+        } => {
+            wire_command(
+                out, list, amps, density, system, max_strand, grade, format, cs,
+            )?;
+        }
+    }
+    Ok(0)
+}
+
+fn write_plan(out: &mut dyn Write, p: &Plan, format: PlanFormat, cs: Charset) -> Result<()> {
+    match format {
+        PlanFormat::Text => render::text::write_plan(out, p, cs),
+        PlanFormat::Json => render::json::write_plan(out, p),
+        PlanFormat::Csv => render::csv::write_schedule(out, p),
+    }
+    .map_err(out_err)
+}
+
+/// Reads a text file a person named, refusing directories, huge files and non-UTF-8 bytes.
+pub fn read_text(path: &Path) -> Result<String> {
+    let name = path.display().to_string();
+    let meta = std::fs::metadata(path)
+        .map_err(|e| Error::bad_input(&name, format!("cannot read: {e}")))?;
+    if meta.is_dir() {
+        return Err(Error::bad_input(&name, "is a directory; expected a file"));
+    }
+    let file = std::fs::File::open(path)
+        .map_err(|e| Error::bad_input(&name, format!("cannot read: {e}")))?;
+    let mut bytes = Vec::new();
+    file.take(MAX_READ_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(|e| Error::bad_input(&name, format!("cannot read: {e}")))?;
+    if bytes.len() as u64 > MAX_READ_BYTES {
+        return Err(Error::bad_input(
+            &name,
+            format!(
+                "larger than {} MiB; expected a small text file",
+                MAX_READ_BYTES >> 20
+            ),
+        ));
+    }
+    String::from_utf8(bytes).map_err(|e| {
+        let line = e.as_bytes()[..e.utf8_error().valid_up_to()]
+            .iter()
+            .filter(|&&b| b == b'\n')
+            .count()
+            + 1;
+        Error::bad_input(&name, format!("line {line}: not UTF-8 text"))
+    })
+}
+
+/// Reads and checks a job file; sweep paths are relative to the job file.
+pub fn load_job(path: &Path) -> Result<(Job, String)> {
+    let origin = path.display().to_string();
+    let text = read_text(path)?;
+    let base = path.parent().map(Path::to_path_buf).unwrap_or_default();
+    let loader = |rel: &str| -> Result<(String, Vec<SweepPoint>)> {
+        let p = base.join(rel);
+        let name = p.display().to_string();
+        let text = read_text(&p)?;
+        Ok((name.clone(), read_sweep(&name, text.as_bytes())?))
+    };
+    let job = parse_job(&text, &origin, &loader)?;
+    Ok((job, origin))
+}
+
+fn flag_length(flag: &str, text: &str) -> Result<f64> {
+    let mm = crate::units::parse_length_mm(text)
+        .map_err(|m| Error::bad_value("command line", flag, format!("\"{text}\""), m))?;
+    if !(mm > 0.0 && mm <= crate::job::MAX_CORE_MM) {
+        return Err(Error::bad_value(
+            "command line",
+            flag,
+            format!("\"{text}\""),
+            "must be > 0 mm and ≤ 1000 mm",
+        ));
+    }
+    Ok(mm)
+}
+
+fn core_from_flags(
+    tongue: &str,
+    stack: &str,
+    window: &str,
+    shape: ShapeArg,
+    stacking: f64,
+) -> Result<CoreDims> {
+    let a = flag_length("--tongue", tongue)?;
+    let s = flag_length("--stack", stack)?;
+    let (w, h) = crate::units::parse_window(window)
+        .map_err(|m| Error::bad_value("command line", "--window", format!("\"{window}\""), m))?;
+    for (v, what) in [(w, "width"), (h, "height")] {
+        if !(v > 0.0 && v <= crate::job::MAX_CORE_MM) {
+            return Err(Error::bad_value(
+                "command line",
+                "--window",
+                format!("\"{window}\""),
+                format!("the {what} must be > 0 mm and ≤ 1000 mm"),
+            ));
+        }
+    }
+    if !(stacking > 0.5 && stacking <= 1.0) {
+        return Err(Error::bad_value(
+            "command line",
+            "--stacking",
+            stacking,
+            "must be > 0.5 and ≤ 1",
+        ));
+    }
+    let shape = match shape {
+        ShapeArg::Ei => Shape::Ei,
+        ShapeArg::Ui => Shape::Ui,
+    };
+    Ok(CoreDims::new(shape, a, s, (w, h), stacking))
+}
+
+#[derive(serde::Serialize)]
+struct CoreJsonOut<'a> {
+    shape: &'a str,
+    tongue_mm: f64,
+    stack_mm: f64,
+    window_width_mm: f64,
+    window_height_mm: f64,
+    stacking_factor: f64,
+    #[serde(flatten)]
+    geometry: &'a crate::geometry::CoreGeometry,
+    rule_of_thumb_va: f64,
+}
+
+fn write_core(out: &mut dyn Write, d: &CoreDims, format: SimpleFormat, cs: Charset) -> Result<()> {
+    let g = geometry(d);
+    let va = rule_of_thumb_va(g.area_gross_mm2);
+    match format {
+        SimpleFormat::Json => render::json::write_json(
+            out,
+            &CoreJsonOut {
+                shape: d.shape.name(),
+                tongue_mm: d.tongue_mm,
+                stack_mm: d.stack_mm,
+                window_width_mm: d.window_width_mm,
+                window_height_mm: d.window_height_mm,
+                stacking_factor: d.stacking_factor,
+                geometry: &g,
+                rule_of_thumb_va: va,
+            },
+        ),
+        SimpleFormat::Text => {
+            use render::num;
+            let t = render::pairs(
+                &[
+                    ("shape", d.shape.name().to_string()),
+                    (
+                        "tongue × stack",
+                        format!("{} × {} mm", num(d.tongue_mm, 2), num(d.stack_mm, 2)),
+                    ),
+                    (
+                        "window w × h",
+                        format!(
+                            "{} × {} mm",
+                            num(d.window_width_mm, 2),
+                            num(d.window_height_mm, 2)
+                        ),
+                    ),
+                    ("stacking factor", num(d.stacking_factor, 3)),
+                    (
+                        "Ae gross",
+                        format!(
+                            "{} mm² ({} cm²)",
+                            num(g.area_gross_mm2, 1),
+                            num(g.area_gross_mm2 / 100.0, 2)
+                        ),
+                    ),
+                    ("Ae net", format!("{} mm²", num(g.area_net_mm2, 1))),
+                    (
+                        "Aw (one window)",
+                        format!("{} mm²", num(g.window_area_mm2, 1)),
+                    ),
+                    (
+                        "area product Ap",
+                        format!("{} cm⁴", num(g.area_product_cm4, 2)),
+                    ),
+                    ("path length le", format!("{} mm", num(g.path_length_mm, 1))),
+                    (
+                        "outline",
+                        format!(
+                            "{} × {} mm",
+                            num(g.outline_width_mm, 1),
+                            num(g.outline_height_mm, 1)
+                        ),
+                    ),
+                    (
+                        "core mass",
+                        format!("{} kg (from the outline, 7.65 g/cm³)", num(g.mass_kg, 3)),
+                    ),
+                    (
+                        "rule of thumb",
+                        format!(
+                            "about {} VA (Ae in cm² ≈ √VA; common practice, not a rating)",
+                            num(va, 0)
+                        ),
+                    ),
+                ],
+                cs,
+            );
+            let t = if cs == Charset::Ascii {
+                render::asciify(&t)
+            } else {
+                t
+            };
+            writeln!(
+                out,
+                "{t}\nFor a rating from losses and heating, use `ironwind rate`."
+            )
+        }
+    }
+    .map_err(out_err)
+}
+
+#[allow(clippy::too_many_arguments)]
+fn wire_command(
+    out: &mut dyn Write,
+    list: bool,
+    amps: Option<f64>,
+    density: f64,
+    system: SystemArg,
+    max_strand: f64,
+    grade: u8,
+    format: SimpleFormat,
+    cs: Charset,
+) -> Result<()> {
+    use crate::wire::{choose, sizes, Grade, System, WireRequest};
+    let system = match system {
+        SystemArg::Metric => System::Metric,
+        SystemArg::Awg => System::Awg,
+    };
+    let grade = match grade {
+        1 => Grade::One,
+        2 => Grade::Two,
+        g => {
+            return Err(Error::bad_value(
+                "command line",
+                "--grade",
+                g,
+                "must be 1 or 2",
+            ))
+        }
+    };
+    if list || amps.is_none() {
+        let rows = sizes(system, grade);
+        return match format {
+            SimpleFormat::Json => render::json::write_json(out, &rows),
+            SimpleFormat::Text => {
+                let mut t = vec![vec![
+                    if system == System::Awg {
+                        "AWG".to_string()
+                    } else {
+                        "nominal mm".to_string()
+                    },
+                    "bare mm".into(),
+                    format!("overall mm ({})", grade.label(system)),
+                    "area mm²".into(),
+                    "Ω/m at 20 °C".into(),
+                    "A at 3 A/mm²".into(),
+                ]];
+                for r in rows {
+                    t.push(vec![
+                        r.size.clone(),
+                        render::num(r.bare_mm, 4),
+                        render::num(r.overall_mm, 3),
+                        render::sig3(r.area_mm2),
+                        render::sig3(crate::losses::resistance_ohm(1.0, r.area_mm2, 20.0)),
+                        render::sig3(3.0 * r.area_mm2),
+                    ]);
+                }
+                let s = render::table(t, 1, cs);
+                let s = if cs == Charset::Ascii {
+                    render::asciify(&s)
+                } else {
+                    s
+                };
+                writeln!(out, "{s}")
+            }
+        }
+        .map_err(out_err);
+    }
+    let amps = amps.unwrap_or(0.0);
+    if !(amps.is_finite() && amps > 0.0 && amps <= 10_000.0) {
+        return Err(Error::bad_value(
+            "command line",
+            "--amps",
+            amps,
+            "must be > 0 A and ≤ 10000 A",
+        ));
+    }
+    if !(density.is_finite() && (0.2..=20.0).contains(&density)) {
+        return Err(Error::bad_value(
+            "command line",
+            "--density",
+            density,
+            "must be ≥ 0.2 A/mm² and ≤ 20 A/mm²",
+        ));
+    }
+    if !(max_strand.is_finite() && (0.1..=4.0).contains(&max_strand)) {
+        return Err(Error::bad_value(
+            "command line",
+            "--max-strand",
+            max_strand,
+            "must be ≥ 0.1 mm and ≤ 4 mm",
+        ));
+    }
+    let c = choose(
+        amps,
+        density,
+        system,
+        grade,
+        max_strand,
+        &WireRequest::default(),
+    );
+    let area = c.area_mm2();
+    #[derive(serde::Serialize)]
+    struct Choice {
+        amps: f64,
+        density_limit_a_mm2: f64,
+        system: &'static str,
+        size: String,
+        strands: u32,
+        bare_mm: f64,
+        overall_mm: f64,
+        area_mm2: f64,
+        current_density_a_mm2: f64,
+        cmil_per_a: f64,
+    }
+    let ch = Choice {
+        amps,
+        density_limit_a_mm2: density,
+        system: c.conductor.system_name(),
+        size: c.conductor.size_label(),
+        strands: c.strands,
+        bare_mm: c.conductor.bare_mm(),
+        overall_mm: c.conductor.build_mm(),
+        area_mm2: area,
+        current_density_a_mm2: amps / area,
+        cmil_per_a: area / crate::wire::MM2_PER_CMIL / amps,
+    };
+    match format {
+        SimpleFormat::Json => render::json::write_json(out, &ch),
+        SimpleFormat::Text => {
+            use render::num;
+            let s = render::pairs(
+                &[
+                    (
+                        "current",
+                        format!("{} A at ≤ {} A/mm²", num(amps, 2), num(density, 2)),
+                    ),
+                    (
+                        "wire",
+                        format!("{} ({})", c.conductor.describe(), grade.label(system)),
+                    ),
+                    ("strands in hand", c.strands.to_string()),
+                    ("overall diameter", format!("{} mm", num(ch.overall_mm, 3))),
+                    ("copper area", format!("{} mm² in all", num(area, 3))),
+                    (
+                        "current density",
+                        format!(
+                            "{} A/mm² ({} cmil/A)",
+                            num(ch.current_density_a_mm2, 2),
+                            num(ch.cmil_per_a, 0)
+                        ),
+                    ),
+                ],
+                cs,
+            );
+            let s = if cs == Charset::Ascii {
+                render::asciify(&s)
+            } else {
+                s
+            };
+            writeln!(out, "{s}")
+        }
+    }
+    .map_err(out_err)
+}
+
+/// Whether stdout is a terminal (for colour and progress decisions).
+pub fn stdout_is_terminal() -> bool {
+    std::io::stdout().is_terminal()
+}

@@ -1,0 +1,104 @@
+//! The one error type of ironwind, and its exit codes.
+//!
+//! Bad input (a job file, a sweep or shelf CSV, a flag) is exit 2 and names where it was found, the
+//! key or line, the value given and what is accepted. Every other failure (I/O, a locked or
+//! read-only shelf) is exit 1. A design that fails a check is not an error: it is a verdict.
+
+use std::fmt;
+
+/// Every failure ironwind reports.
+#[derive(Debug, thiserror::Error)]
+pub enum Error {
+    /// A value was read but is outside what is accepted.
+    #[error("{origin}: {field} = {value}: {accepted}")]
+    BadValue {
+        /// Where it came from: a file name, or `--flag` for the command line.
+        origin: String,
+        /// The key, with its table (`[core] tongue_mm`), or a line (`line 7: amps`).
+        field: String,
+        /// The value as given.
+        value: String,
+        /// What is accepted, as a sentence fragment (`must be > 0 mm and ≤ 1000 mm`).
+        accepted: String,
+    },
+    /// The input could not be read as the format it must be (TOML, CSV), or a key is missing or
+    /// unknown.
+    #[error("{origin}: {detail}")]
+    BadInput {
+        /// Where it came from.
+        origin: String,
+        /// One line: what is wrong and where (line number, key).
+        detail: String,
+    },
+    /// A file could not be read or written.
+    #[error("{path}: {action}: {reason}")]
+    Io {
+        /// The path concerned.
+        path: String,
+        /// What was tried (`cannot read`, `cannot write`).
+        action: String,
+        /// The operating system's reason.
+        reason: String,
+    },
+    /// Any other failure that is not the user's input.
+    #[error("{0}")]
+    Failed(String),
+}
+
+impl Error {
+    /// The process exit code for this error: 2 for bad input, 1 for the rest.
+    pub fn exit_code(&self) -> i32 {
+        match self {
+            Error::BadValue { .. } | Error::BadInput { .. } => 2,
+            Error::Io { .. } | Error::Failed(_) => 1,
+        }
+    }
+
+    /// Builds a [`Error::BadValue`].
+    pub fn bad_value(
+        origin: impl Into<String>,
+        field: impl Into<String>,
+        value: impl fmt::Display,
+        accepted: impl Into<String>,
+    ) -> Self {
+        Error::BadValue {
+            origin: origin.into(),
+            field: field.into(),
+            value: one_line(&value.to_string()),
+            accepted: accepted.into(),
+        }
+    }
+
+    /// Builds a [`Error::BadInput`].
+    pub fn bad_input(origin: impl Into<String>, detail: impl Into<String>) -> Self {
+        Error::BadInput {
+            origin: origin.into(),
+            detail: one_line(&detail.into()),
+        }
+    }
+
+    /// Builds an [`Error::Io`] from an `std::io::Error`.
+    pub fn io(path: impl Into<String>, action: &str, err: &std::io::Error) -> Self {
+        Error::Io {
+            path: path.into(),
+            action: action.to_string(),
+            reason: err.to_string(),
+        }
+    }
+}
+
+/// Folds any line breaks and control characters so a message stays on one line, and cuts very
+/// long values.
+pub fn one_line(s: &str) -> String {
+    let mut out: String = s
+        .chars()
+        .map(|c| if c.is_control() { ' ' } else { c })
+        .collect();
+    if out.chars().count() > 120 {
+        out = out.chars().take(117).collect::<String>() + "...";
+    }
+    out
+}
+
+/// Short form for results in this crate.
+pub type Result<T> = std::result::Result<T, Error>;

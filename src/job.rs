@@ -1,0 +1,867 @@
+//! The TOML job file, read and checked into a [`Job`] before any physics runs.
+//!
+//! Parse, then check: serde reads the text into raw tables that refuse unknown keys (the message
+//! lists the accepted ones), then every value is checked against its accepted range. Every error
+//! names the file, the line or key, the value and what is accepted.
+
+use crate::error::{Error, Result};
+use crate::geometry::{default_leg_yoke, CoreDims, Shape};
+use crate::layout::LayoutSettings;
+use crate::magnetics::{steel_info, SteelInfo, Waveform, MAX_FLUX_T};
+#[cfg(test)]
+use crate::probe::SweepPoint;
+use crate::probe::{ProbeInput, SweepLoader};
+use crate::units::LengthInput;
+use crate::wire::{find_size, Grade, System, WireRequest, CMIL_PER_A_AT_1_A_MM2};
+use serde::Deserialize;
+
+/// Largest job file read, bytes (a job is a few hundred bytes; this refuses a wrong file early).
+pub const MAX_JOB_BYTES: usize = 1 << 20;
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawJob {
+    name: Option<String>,
+    core: RawCore,
+    supply: RawSupply,
+    limits: Option<RawLimits>,
+    wire: Option<RawWire>,
+    insulation: Option<RawInsulation>,
+    probe: Option<RawProbe>,
+    winding: Vec<RawWinding>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawCore {
+    shape: Option<String>,
+    tongue_mm: LengthInput,
+    stack_mm: LengthInput,
+    window_width_mm: LengthInput,
+    window_height_mm: LengthInput,
+    stacking_factor: Option<f64>,
+    steel: Option<String>,
+    bobbin_wall_mm: Option<LengthInput>,
+    outer_leg_mm: Option<LengthInput>,
+    yoke_mm: Option<LengthInput>,
+    mass_g: Option<f64>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawSupply {
+    frequency_hz: f64,
+    waveform: Option<String>,
+    duty: Option<f64>,
+}
+
+#[derive(Debug, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawLimits {
+    flux_density_t: Option<f64>,
+    current_density_a_mm2: Option<f64>,
+    current_density_cmil_per_a: Option<f64>,
+    ambient_c: Option<f64>,
+    max_rise_c: Option<f64>,
+}
+
+#[derive(Debug, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawWire {
+    system: Option<String>,
+    max_strand_mm: Option<LengthInput>,
+    pitch: Option<f64>,
+    grade: Option<u8>,
+    lead_m: Option<f64>,
+}
+
+#[derive(Debug, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawInsulation {
+    interlayer_mm: Option<LengthInput>,
+    between_windings_mm: Option<LengthInput>,
+    outer_mm: Option<LengthInput>,
+    clearance_mm: Option<LengthInput>,
+    margin_mm: Option<LengthInput>,
+}
+
+#[derive(Debug, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawProbe {
+    test_turns: Option<u32>,
+    test_volts: Option<f64>,
+    applied_volts: Option<f64>,
+    applied_to: Option<String>,
+    sweep: Option<String>,
+    sweep_turns: Option<u32>,
+    sweep_winding: Option<String>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawWinding {
+    name: String,
+    role: String,
+    volts: f64,
+    amps: Option<f64>,
+    size: Option<String>,
+    strands: Option<u32>,
+    strip_mm: Option<Vec<LengthInput>>,
+    taps_volts: Option<Vec<f64>>,
+    kept: Option<bool>,
+    rated_volts: Option<f64>,
+    resistance_ohm: Option<f64>,
+    build_mm: Option<LengthInput>,
+}
+
+/// The role of a winding.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Role {
+    /// The driven winding.
+    Primary,
+    /// An output.
+    Secondary,
+}
+
+impl Role {
+    /// The name used in job files.
+    pub fn name(self) -> &'static str {
+        match self {
+            Role::Primary => "primary",
+            Role::Secondary => "secondary",
+        }
+    }
+}
+
+/// A checked winding.
+#[derive(Debug, Clone, PartialEq)]
+pub struct WindingSpec {
+    /// Its name, unique in the job.
+    pub name: String,
+    /// Primary or secondary.
+    pub role: Role,
+    /// Volts: RMS, or the amplitude for a primary under a square or quasi-square drive.
+    pub volts: f64,
+    /// Full-load current for an output, A (0 for the primary: it is computed).
+    pub amps: f64,
+    /// What the job asks of the conductor.
+    pub wire: WireRequest,
+    /// Tap voltages of an output, V RMS, ascending.
+    pub taps_volts: Vec<f64>,
+    /// Whether this is the donor's own winding, left on the core.
+    pub kept: bool,
+    /// Rated volts of a kept winding.
+    pub rated_volts: Option<f64>,
+    /// Measured resistance of a kept winding at 20 °C, Ω.
+    pub resistance_ohm: Option<f64>,
+    /// Measured build of a kept winding, mm.
+    pub build_mm: Option<f64>,
+}
+
+/// A checked job.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Job {
+    /// The job's name.
+    pub name: String,
+    /// The core's measurements.
+    pub core: CoreDims,
+    /// The core's lengths as typed, for the shelf: tongue, stack, window width, height.
+    pub core_text: [String; 4],
+    /// The steel.
+    pub steel: SteelInfo,
+    /// Supply frequency, Hz.
+    pub frequency_hz: f64,
+    /// Drive waveform of the primary.
+    pub waveform: Waveform,
+    /// The flux density asked for, T (None: from the steel and probe).
+    pub flux_density_t: Option<f64>,
+    /// Current density, A/mm².
+    pub current_density_a_mm2: f64,
+    /// Ambient temperature, °C.
+    pub ambient_c: f64,
+    /// Allowed temperature rise, °C.
+    pub max_rise_c: f64,
+    /// Wire system for automatic choices.
+    pub system: System,
+    /// Enamel grade.
+    pub grade: Grade,
+    /// Thickest single strand before going to parallel strands, mm.
+    pub max_strand_mm: f64,
+    /// Layout and insulation.
+    pub layout: LayoutSettings,
+    /// Lead length at each end of a winding, m.
+    pub lead_m: f64,
+    /// Windings, innermost first.
+    pub windings: Vec<WindingSpec>,
+    /// Probe measurements.
+    pub probe: Option<ProbeInput>,
+}
+
+impl Job {
+    /// Index of the primary winding (there is always exactly one after checking).
+    pub fn primary_index(&self) -> usize {
+        self.windings
+            .iter()
+            .position(|w| w.role == Role::Primary)
+            .unwrap_or(0)
+    }
+}
+
+/// Converts a TOML error to one line: file, line, key and the message.
+pub fn toml_error(origin: &str, text: &str, err: &toml::de::Error) -> Error {
+    let msg = err.message().replace('\n', " ");
+    let Some(span) = err.span() else {
+        return Error::bad_input(origin, msg);
+    };
+    let start = span.start.min(text.len());
+    let line_no = text[..start].matches('\n').count() + 1;
+    let line = text.lines().nth(line_no - 1).unwrap_or("").trim();
+    let shown = crate::error::one_line(line);
+    if shown.is_empty() || msg.contains(&shown) {
+        Error::bad_input(origin, format!("line {line_no}: {msg}"))
+    } else {
+        Error::bad_input(origin, format!("line {line_no}: `{shown}`: {msg}"))
+    }
+}
+
+/// A range check helper bound to one file.
+pub struct Checker<'a> {
+    origin: &'a str,
+}
+
+impl<'a> Checker<'a> {
+    /// A checker for values from `origin`.
+    pub fn new(origin: &'a str) -> Self {
+        Checker { origin }
+    }
+
+    /// Checks lo < v ≤ hi (or lo ≤ v when `lo_inclusive`), finite.
+    pub fn range(
+        &self,
+        field: &str,
+        v: f64,
+        lo: f64,
+        lo_inclusive: bool,
+        hi: f64,
+        unit: &str,
+    ) -> Result<f64> {
+        let ok_lo = if lo_inclusive { v >= lo } else { v > lo };
+        if v.is_finite() && ok_lo && v <= hi {
+            return Ok(v);
+        }
+        let op = if lo_inclusive { "≥" } else { ">" };
+        let unit = if unit.is_empty() {
+            String::new()
+        } else {
+            format!(" {unit}")
+        };
+        Err(Error::bad_value(
+            self.origin,
+            field,
+            fmt_value(v),
+            format!("must be {op} {lo}{unit} and ≤ {hi}{unit}"),
+        ))
+    }
+
+    /// A length in mm that must be positive and at most `hi`.
+    pub fn length(&self, field: &str, v: &LengthInput, hi: f64) -> Result<f64> {
+        self.range(field, v.mm, 0.0, false, hi, "mm")
+            .map_err(|e| relabel(e, &v.text))
+    }
+
+    /// A length in mm that may be zero.
+    pub fn length0(&self, field: &str, v: &LengthInput, hi: f64) -> Result<f64> {
+        self.range(field, v.mm, 0.0, true, hi, "mm")
+            .map_err(|e| relabel(e, &v.text))
+    }
+
+    /// A choice among words.
+    pub fn word(&self, field: &str, v: &str, accepted: &[&str]) -> Result<String> {
+        let lower = v.trim().to_ascii_lowercase();
+        if accepted.contains(&lower.as_str()) {
+            Ok(lower)
+        } else {
+            let list: Vec<String> = accepted.iter().map(|a| format!("\"{a}\"")).collect();
+            Err(Error::bad_value(
+                self.origin,
+                field,
+                format!("\"{v}\""),
+                format!("must be one of {}", list.join(", ")),
+            ))
+        }
+    }
+
+    /// Any error for a field.
+    pub fn fail(
+        &self,
+        field: &str,
+        value: impl std::fmt::Display,
+        accepted: impl Into<String>,
+    ) -> Error {
+        Error::bad_value(self.origin, field, value, accepted)
+    }
+}
+
+fn relabel(e: Error, text: &str) -> Error {
+    match e {
+        Error::BadValue {
+            origin,
+            field,
+            accepted,
+            value,
+        } => Error::BadValue {
+            origin,
+            field,
+            value: if text.is_empty() || text == value {
+                value
+            } else {
+                format!("\"{text}\"")
+            },
+            accepted,
+        },
+        other => other,
+    }
+}
+
+/// Formats a number as a person typed it (no trailing zeros), or NaN/inf.
+pub fn fmt_value(v: f64) -> String {
+    if v.is_finite() {
+        format!("{v}")
+    } else {
+        format!("{v}").to_lowercase()
+    }
+}
+
+/// Largest core dimension accepted, mm.
+pub const MAX_CORE_MM: f64 = 1000.0;
+
+/// Reads and checks a job. `load_sweep` reads a sweep file named in `[probe] sweep` (relative to the
+/// job file) and returns its name for messages and its points.
+pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Job> {
+    if text.len() > MAX_JOB_BYTES {
+        return Err(Error::bad_input(
+            origin,
+            format!(
+                "{} bytes: a job file must be at most {} bytes",
+                text.len(),
+                MAX_JOB_BYTES
+            ),
+        ));
+    }
+    if text.trim().is_empty() {
+        return Err(Error::bad_input(
+            origin,
+            "the file is empty; a job needs [core], [supply] and [[winding]] tables",
+        ));
+    }
+    let raw: RawJob = toml::from_str(text).map_err(|e| toml_error(origin, text, &e))?;
+    let c = Checker::new(origin);
+
+    // [core]
+    let rc = &raw.core;
+    let shape = match rc.shape.as_deref() {
+        None => Shape::Ei,
+        Some(s) => match c.word("[core] shape", s, &["ei", "ui"])?.as_str() {
+            "ui" => Shape::Ui,
+            _ => Shape::Ei,
+        },
+    };
+    let a = c.length("[core] tongue_mm", &rc.tongue_mm, MAX_CORE_MM)?;
+    let s = c.length("[core] stack_mm", &rc.stack_mm, MAX_CORE_MM)?;
+    let w = c.length("[core] window_width_mm", &rc.window_width_mm, MAX_CORE_MM)?;
+    let h = c.length("[core] window_height_mm", &rc.window_height_mm, MAX_CORE_MM)?;
+    let k = match rc.stacking_factor {
+        Some(k) => c.range("[core] stacking_factor", k, 0.5, false, 1.0, "")?,
+        None => crate::geometry::DEFAULT_STACKING,
+    };
+    let steel = match &rc.steel {
+        None => steel_info("unknown").map_err(|m| c.fail("[core] steel", "unknown", m))?,
+        Some(name) => {
+            steel_info(name).map_err(|m| c.fail("[core] steel", format!("\"{name}\""), m))?
+        }
+    };
+    let (dc, dy) = default_leg_yoke(shape, a);
+    let outer = match &rc.outer_leg_mm {
+        Some(v) => c.length("[core] outer_leg_mm", v, MAX_CORE_MM)?,
+        None => dc,
+    };
+    let yoke = match &rc.yoke_mm {
+        Some(v) => c.length("[core] yoke_mm", v, MAX_CORE_MM)?,
+        None => dy,
+    };
+    let mass = match rc.mass_g {
+        Some(m) => Some(c.range("[core] mass_g", m, 0.0, false, 1.0e6, "g")? / 1000.0),
+        None => None,
+    };
+    let mut layout = LayoutSettings::default();
+    if let Some(v) = &rc.bobbin_wall_mm {
+        layout.bobbin_wall_mm = c.length0("[core] bobbin_wall_mm", v, 20.0)?;
+    }
+    let core = CoreDims {
+        shape,
+        tongue_mm: a,
+        stack_mm: s,
+        window_width_mm: w,
+        window_height_mm: h,
+        stacking_factor: k,
+        outer_leg_mm: outer,
+        yoke_mm: yoke,
+        measured_mass_kg: mass,
+    };
+
+    // [supply]
+    let f = c.range(
+        "[supply] frequency_hz",
+        raw.supply.frequency_hz,
+        1.0,
+        true,
+        2000.0,
+        "Hz",
+    )?;
+    let waveform_name = match &raw.supply.waveform {
+        Some(wf) => c.word("[supply] waveform", wf, &["sine", "square", "quasi-square"])?,
+        None => "sine".to_string(),
+    };
+    let waveform = match waveform_name.as_str() {
+        "square" => Waveform::Square,
+        "quasi-square" => {
+            let d = raw.supply.duty.ok_or_else(|| {
+                c.fail("[supply] duty", "(missing)", "a quasi-square drive needs duty, the conduction fraction of each half cycle, > 0 and ≤ 1")
+            })?;
+            Waveform::QuasiSquare {
+                duty: c.range("[supply] duty", d, 0.0, false, 1.0, "")?,
+            }
+        }
+        _ => Waveform::Sine,
+    };
+    if let (Some(d), false) = (
+        raw.supply.duty,
+        matches!(waveform, Waveform::QuasiSquare { .. }),
+    ) {
+        if d != 1.0 {
+            return Err(c.fail(
+                "[supply] duty",
+                fmt_value(d),
+                "duty applies only to waveform = \"quasi-square\"; remove it or set the waveform",
+            ));
+        }
+    }
+
+    // [limits]
+    let lim = raw.limits.unwrap_or_default();
+    let flux = match lim.flux_density_t {
+        Some(b) => Some(c.range("[limits] flux_density_t", b, 0.0, false, MAX_FLUX_T, "T")?),
+        None => None,
+    };
+    let j = match (lim.current_density_a_mm2, lim.current_density_cmil_per_a) {
+        (Some(_), Some(_)) => return Err(c.fail(
+            "[limits] current_density_cmil_per_a",
+            "(given with current_density_a_mm2)",
+            "give the current density one way: current_density_a_mm2 or current_density_cmil_per_a",
+        )),
+        (Some(j), None) => c.range(
+            "[limits] current_density_a_mm2",
+            j,
+            0.2,
+            true,
+            20.0,
+            "A/mm²",
+        )?,
+        (None, Some(cm)) => {
+            let cm = c.range(
+                "[limits] current_density_cmil_per_a",
+                cm,
+                100.0,
+                true,
+                10_000.0,
+                "cmil/A",
+            )?;
+            CMIL_PER_A_AT_1_A_MM2 / cm
+        }
+        (None, None) => 3.0,
+    };
+    let ambient = match lim.ambient_c {
+        Some(t) => c.range("[limits] ambient_c", t, -40.0, true, 80.0, "°C")?,
+        None => 30.0,
+    };
+    let rise = match lim.max_rise_c {
+        Some(t) => c.range("[limits] max_rise_c", t, 0.0, false, 150.0, "°C")?,
+        None => 50.0,
+    };
+
+    // [wire]
+    let rw = raw.wire.unwrap_or_default();
+    let system = match &rw.system {
+        Some(sys) => match c.word("[wire] system", sys, &["metric", "awg"])?.as_str() {
+            "awg" => System::Awg,
+            _ => System::Metric,
+        },
+        None => System::Metric,
+    };
+    let grade = match rw.grade {
+        None | Some(2) => Grade::Two,
+        Some(1) => Grade::One,
+        Some(g) => {
+            return Err(c.fail(
+                "[wire] grade",
+                g,
+                "must be 1 (grade 1 / AWG single build) or 2 (grade 2 / AWG heavy build)",
+            ))
+        }
+    };
+    let max_strand = match &rw.max_strand_mm {
+        Some(v) => c.length("[wire] max_strand_mm", v, 4.0)?,
+        None => 2.0,
+    };
+    if max_strand < 0.1 {
+        return Err(c.fail(
+            "[wire] max_strand_mm",
+            fmt_value(max_strand),
+            "must be ≥ 0.1 mm and ≤ 4 mm",
+        ));
+    }
+    if let Some(p) = rw.pitch {
+        layout.pitch = c.range("[wire] pitch", p, 1.0, true, 2.0, "")?;
+    }
+    let lead_m = match rw.lead_m {
+        Some(l) => c.range("[wire] lead_m", l, 0.0, true, 10.0, "m")?,
+        None => 0.15,
+    };
+
+    // [insulation]
+    let ri = raw.insulation.unwrap_or_default();
+    if let Some(v) = &ri.interlayer_mm {
+        layout.interlayer_mm = c.length0("[insulation] interlayer_mm", v, 5.0)?;
+    }
+    if let Some(v) = &ri.between_windings_mm {
+        layout.between_windings_mm = c.length0("[insulation] between_windings_mm", v, 10.0)?;
+    }
+    if let Some(v) = &ri.outer_mm {
+        layout.outer_mm = c.length0("[insulation] outer_mm", v, 10.0)?;
+    }
+    if let Some(v) = &ri.clearance_mm {
+        layout.clearance_mm = c.length0("[insulation] clearance_mm", v, 50.0)?;
+    }
+    if let Some(v) = &ri.margin_mm {
+        layout.margin_mm = c.length0("[insulation] margin_mm", v, 50.0)?;
+    }
+
+    // [[winding]]
+    if raw.winding.is_empty() {
+        return Err(c.fail(
+            "[[winding]]",
+            "(none)",
+            "a job needs one primary and at least one secondary winding",
+        ));
+    }
+    if raw.winding.len() > 32 {
+        return Err(c.fail(
+            "[[winding]]",
+            format!("{} windings", raw.winding.len()),
+            "at most 32 windings",
+        ));
+    }
+    let mut windings: Vec<WindingSpec> = Vec::new();
+    for (i, rw) in raw.winding.iter().enumerate() {
+        let at = format!("[[winding]] #{}", i + 1);
+        let name = rw.name.trim().to_string();
+        if name.is_empty() || name.chars().count() > 40 || name.chars().any(char::is_control) {
+            return Err(c.fail(
+                &format!("{at} name"),
+                format!("\"{}\"", rw.name),
+                "must be 1 to 40 printable characters",
+            ));
+        }
+        if windings.iter().any(|w| w.name == name) {
+            return Err(c.fail(
+                &format!("{at} name"),
+                format!("\"{name}\""),
+                "winding names must be unique; this one is used twice",
+            ));
+        }
+        let key = |k: &str| format!("[[winding]] \"{name}\" {k}");
+        let role = match c
+            .word(&key("role"), &rw.role, &["primary", "secondary"])?
+            .as_str()
+        {
+            "primary" => Role::Primary,
+            _ => Role::Secondary,
+        };
+        let volts = c.range(&key("volts"), rw.volts, 0.0, false, 100_000.0, "V")?;
+        let amps = match (role, rw.amps) {
+            (Role::Secondary, None) => {
+                return Err(c.fail(
+                    &key("amps"),
+                    "(missing)",
+                    "an output winding needs its full-load amps, > 0 and ≤ 10000 A",
+                ))
+            }
+            (Role::Secondary, Some(i)) => c.range(&key("amps"), i, 0.0, false, 10_000.0, "A")?,
+            (Role::Primary, Some(i)) => return Err(c.fail(
+                &key("amps"),
+                fmt_value(i),
+                "the primary's current is computed from the loads; remove amps from the primary",
+            )),
+            (Role::Primary, None) => 0.0,
+        };
+        let mut wire = WireRequest::default();
+        if let Some(sz) = &rw.size {
+            wire.size = Some(
+                find_size(sz, grade).map_err(|m| c.fail(&key("size"), format!("\"{sz}\""), m))?,
+            );
+        }
+        if let Some(n) = rw.strands {
+            if !(1..=200).contains(&n) {
+                return Err(c.fail(&key("strands"), n, "must be ≥ 1 and ≤ 200"));
+            }
+            wire.strands = Some(n);
+        }
+        if let Some(strip) = &rw.strip_mm {
+            if strip.len() != 2 {
+                return Err(c.fail(
+                    &key("strip_mm"),
+                    format!("{} values", strip.len()),
+                    "must be [width, thickness] in mm",
+                ));
+            }
+            if wire.size.is_some() {
+                return Err(c.fail(
+                    &key("strip_mm"),
+                    "(with size)",
+                    "give either size or strip_mm, not both",
+                ));
+            }
+            let sw = c.length(&key("strip_mm[0] (width)"), &strip[0], 500.0)?;
+            let st = c.length(&key("strip_mm[1] (thickness)"), &strip[1], 20.0)?;
+            if st > sw {
+                return Err(c.fail(
+                    &key("strip_mm"),
+                    format!("[{sw}, {st}]"),
+                    "must be [width, thickness] with width ≥ thickness",
+                ));
+            }
+            if st < 0.05 {
+                return Err(c.fail(&key("strip_mm[1] (thickness)"), st, "must be ≥ 0.05 mm"));
+            }
+            wire.strip_mm = Some((sw, st));
+        }
+        let mut taps = rw.taps_volts.clone().unwrap_or_default();
+        if !taps.is_empty() && role == Role::Primary {
+            return Err(c.fail(
+                &key("taps_volts"),
+                "(on the primary)",
+                "taps are planned on output windings only",
+            ));
+        }
+        for t in &taps {
+            if !(t.is_finite() && *t > 0.0 && *t < volts) {
+                return Err(c.fail(
+                    &key("taps_volts"),
+                    fmt_value(*t),
+                    format!("each tap must be > 0 V and below the winding's {volts} V"),
+                ));
+            }
+        }
+        taps.sort_by(f64::total_cmp);
+        taps.dedup();
+        let kept = rw.kept.unwrap_or(false);
+        let rated = match rw.rated_volts {
+            Some(v) => Some(c.range(&key("rated_volts"), v, 0.0, false, 100_000.0, "V")?),
+            None => None,
+        };
+        let res = match rw.resistance_ohm {
+            Some(r) => Some(c.range(&key("resistance_ohm"), r, 0.0, false, 100_000.0, "Ω")?),
+            None => None,
+        };
+        let build = match &rw.build_mm {
+            Some(b) => Some(c.length(&key("build_mm"), b, MAX_CORE_MM)?),
+            None => None,
+        };
+        if !kept && (rated.is_some() || res.is_some() || build.is_some()) {
+            return Err(c.fail(&key("kept"), "false", "rated_volts, resistance_ohm and build_mm describe a kept donor winding: add kept = true"));
+        }
+        windings.push(WindingSpec {
+            name,
+            role,
+            volts,
+            amps,
+            wire,
+            taps_volts: taps,
+            kept,
+            rated_volts: rated,
+            resistance_ohm: res,
+            build_mm: build,
+        });
+    }
+    let primaries = windings.iter().filter(|w| w.role == Role::Primary).count();
+    if primaries != 1 {
+        return Err(c.fail(
+            "[[winding]] role",
+            format!("{primaries} primaries"),
+            "exactly one winding must have role = \"primary\"",
+        ));
+    }
+    if windings.len() < 2 {
+        return Err(c.fail(
+            "[[winding]]",
+            "only a primary",
+            "a job needs at least one secondary winding",
+        ));
+    }
+    let kept_count = windings.iter().filter(|w| w.kept).count();
+    if kept_count > 1 {
+        return Err(c.fail(
+            "[[winding]] kept",
+            format!("{kept_count} kept windings"),
+            "at most one donor winding can be kept",
+        ));
+    }
+
+    // [probe]
+    let probe = match raw.probe {
+        None => None,
+        Some(rp) => Some(crate::probe::check_probe_table(
+            &c,
+            rp.into_input(),
+            &windings,
+            load_sweep,
+        )?),
+    };
+    if kept_count == 1 && probe.as_ref().and_then(|p| p.test.as_ref()).is_none() {
+        return Err(c.fail(
+            "[probe] test_turns",
+            "(missing)",
+            "a kept winding needs a test winding in [probe] (test_turns, test_volts, applied_volts) to count its turns",
+        ));
+    }
+
+    Ok(Job {
+        name: raw
+            .name
+            .map(|n| crate::error::one_line(n.trim()))
+            .unwrap_or_else(|| "untitled job".to_string()),
+        core,
+        core_text: [
+            rc.tongue_mm.text.clone(),
+            rc.stack_mm.text.clone(),
+            rc.window_width_mm.text.clone(),
+            rc.window_height_mm.text.clone(),
+        ],
+        steel,
+        frequency_hz: f,
+        waveform,
+        flux_density_t: flux,
+        current_density_a_mm2: j,
+        ambient_c: ambient,
+        max_rise_c: rise,
+        system,
+        grade,
+        max_strand_mm: max_strand,
+        layout,
+        lead_m,
+        windings,
+        probe,
+    })
+}
+
+impl RawProbe {
+    fn into_input(self) -> crate::probe::RawProbeInput {
+        crate::probe::RawProbeInput {
+            test_turns: self.test_turns,
+            test_volts: self.test_volts,
+            applied_volts: self.applied_volts,
+            applied_to: self.applied_to,
+            sweep: self.sweep,
+            sweep_turns: self.sweep_turns,
+            sweep_winding: self.sweep_winding,
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn no_sweep(_: &str) -> Result<(String, Vec<SweepPoint>)> {
+        Err(Error::Failed("no sweep here".into()))
+    }
+
+    const GOOD: &str = r#"
+[core]
+tongue_mm = 32.0
+stack_mm = "1.5 in"
+window_width_mm = 16
+window_height_mm = 48.0
+[supply]
+frequency_hz = 50
+[[winding]]
+name = "mains"
+role = "primary"
+volts = 230
+[[winding]]
+name = "out"
+role = "secondary"
+volts = 28
+amps = 6
+"#;
+
+    #[test]
+    fn good_job_reads_with_defaults() {
+        let j = parse_job(GOOD, "job.toml", &no_sweep).expect("good");
+        approx::assert_relative_eq!(j.core.stack_mm, 38.1, max_relative = 1e-12); // 1.5 in × 25.4 mm/in
+        assert_eq!(j.current_density_a_mm2, 3.0);
+        assert_eq!(j.windings.len(), 2);
+        assert_eq!(j.core_text[1], "1.5 in");
+    }
+
+    #[track_caller]
+    fn bad(text: &str, needle: &str) {
+        let e = parse_job(text, "job.toml", &no_sweep).expect_err("must fail");
+        let msg = e.to_string();
+        assert_eq!(e.exit_code(), 2, "{msg}");
+        assert!(msg.contains(needle), "`{msg}` should name `{needle}`");
+        assert!(msg.starts_with("job.toml: "), "{msg}");
+        assert!(!msg.contains('\n'), "{msg}");
+    }
+
+    #[test]
+    fn bad_inputs_name_the_key() {
+        bad(
+            &GOOD.replace("tongue_mm = 32.0", "tongue_mm = -3"),
+            "tongue_mm",
+        );
+        bad(
+            &GOOD.replace("tongue_mm = 32.0", "tongu_mm = 32"),
+            "tongu_mm",
+        );
+        bad(&GOOD.replace("tongue_mm = 32.0", ""), "tongue_mm");
+        bad(
+            &GOOD.replace("frequency_hz = 50", "frequency_hz = 5000"),
+            "frequency_hz",
+        );
+        bad(
+            &GOOD.replace("[supply]", "[supply]\nwaveform = \"triangle\""),
+            "waveform",
+        );
+        bad(
+            &GOOD.replace("role = \"secondary\"", "role = \"primary\""),
+            "primary",
+        );
+        bad(
+            &GOOD.replace("stack_mm = \"1.5 in\"", "stack_mm = \"12 furlongs\""),
+            "stack_mm",
+        );
+        bad(
+            &GOOD.replace("[supply]", "[limits]\nflux_density_t = 5.0\n[supply]"),
+            "flux_density_t",
+        );
+        bad(&GOOD.replace("[supply]", "[core.extra]\n[supply]"), "extra");
+        bad(
+            &GOOD.replace("name = \"out\"", "name = \"mains\""),
+            "unique",
+        );
+        bad(&GOOD.replace("amps = 6", ""), "amps");
+        bad("[core", "line 1");
+        bad("", "empty");
+    }
+}

@@ -1,0 +1,241 @@
+//! Layout of the coil on the bobbin: traverse, turns per layer, layers, build, mean turn, fill.
+//!
+//! Windings are listed innermost first (DESIGN.md):
+//! - traverse L = h − 2·flange − 2·margin (flange = bobbin wall);
+//! - turns per layer = floor(L / (n · d · pitch)), d the overall diameter (or strip width);
+//! - layers = ceil(N / turns per layer); build = layers·d + (layers − 1)·interlayer;
+//! - total build = wall + Σ builds + between-windings gaps + outer wrap; it fits when
+//!   total ≤ w − clearance (`ui`: each leg has w/2 of the window);
+//! - mean turn MLT = 2(a + s) + 8·wall + 2π·x, x from the tube's outer face to the middle of the
+//!   winding's build (a rectangular tube with rounded corners of radius x);
+//! - copper fill = Σ N·n·area / Aw.
+//!   For `ui`, each leg carries ceil(N/2) turns of every winding (the first leg, the fuller one).
+
+use crate::geometry::{CoreDims, Shape};
+use serde::Serialize;
+use std::f64::consts::PI;
+
+/// Insulation and bobbin settings, all in mm except the pitch factor.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LayoutSettings {
+    /// Bobbin wall (tube and flanges), mm.
+    pub bobbin_wall_mm: f64,
+    /// Extra margin at each end of the traverse, mm.
+    pub margin_mm: f64,
+    /// Winding pitch factor (1.05 for hand winding).
+    pub pitch: f64,
+    /// Insulation between layers, mm.
+    pub interlayer_mm: f64,
+    /// Insulation between windings, mm.
+    pub between_windings_mm: f64,
+    /// Outer wrap, mm.
+    pub outer_mm: f64,
+    /// Clearance left between the coil and the outer leg, mm.
+    pub clearance_mm: f64,
+}
+
+impl Default for LayoutSettings {
+    fn default() -> Self {
+        LayoutSettings {
+            bobbin_wall_mm: 1.5,
+            margin_mm: 0.0,
+            pitch: 1.05,
+            interlayer_mm: 0.05,
+            between_windings_mm: 0.25,
+            outer_mm: 0.2,
+            clearance_mm: 1.0,
+        }
+    }
+}
+
+/// What a winding brings to the layout.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CoilInput {
+    /// Turns of the whole winding.
+    pub turns: u32,
+    /// Strands in hand.
+    pub strands: u32,
+    /// Size of one strand along the traverse (overall diameter or strip width), mm.
+    pub traverse_mm: f64,
+    /// Size of one strand in the build direction, mm.
+    pub build_mm: f64,
+    /// Copper area of one strand, mm².
+    pub area_mm2: f64,
+    /// A measured build that replaces the computed one (a kept winding), mm.
+    pub measured_build_mm: Option<f64>,
+}
+
+/// One winding's place on the bobbin.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CoilLayout {
+    /// Turns on this coil (the first leg's half for `ui`).
+    pub coil_turns: u32,
+    /// Turns per layer (0 when not even one turn fits).
+    pub turns_per_layer: u32,
+    /// Layers.
+    pub layers: u32,
+    /// Radial build of the winding, mm.
+    pub build_mm: f64,
+    /// Distance from the tube's outer face to the middle of the winding, mm.
+    pub mid_mm: f64,
+    /// Mean length of turn, mm.
+    pub mean_turn_mm: f64,
+    /// Running turn count at the end of each layer (for this coil).
+    pub checkpoints: Vec<u32>,
+}
+
+/// The whole coil.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Layout {
+    /// Traverse available for turns, mm.
+    pub traverse_mm: f64,
+    /// Each winding, innermost first.
+    pub coils: Vec<CoilLayout>,
+    /// Total build from the tube's inner face, mm.
+    pub build_mm: f64,
+    /// Build available, mm.
+    pub available_mm: f64,
+    /// Whether every winding gets at least one turn per layer and the build fits.
+    pub fits: bool,
+    /// Copper area over window area.
+    pub copper_fill: f64,
+}
+
+/// Turns on the first (fuller) coil of a winding.
+pub fn coil_turns(shape: Shape, turns: u32) -> u32 {
+    match shape {
+        Shape::Ei => turns,
+        Shape::Ui => turns.div_ceil(2),
+    }
+}
+
+/// Lays out the windings on the core.
+pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> Layout {
+    let traverse = core.window_height_mm - 2.0 * s.bobbin_wall_mm - 2.0 * s.margin_mm;
+    let mut coils = Vec::with_capacity(windings.len());
+    let mut position = 0.0; // from the tube's outer face
+    let mut all_fit_layer = true;
+    let mut copper = 0.0;
+    for (k, w) in windings.iter().enumerate() {
+        if k > 0 {
+            position += s.between_windings_mm;
+        }
+        let n = coil_turns(core.shape, w.turns);
+        let per_turn = w.strands as f64 * w.traverse_mm * s.pitch;
+        let tpl_real = if per_turn > 0.0 {
+            traverse / per_turn
+        } else {
+            0.0
+        };
+        let tpl = if tpl_real.is_finite() && tpl_real >= 1.0 {
+            tpl_real.floor().min(1e6) as u32
+        } else {
+            0
+        };
+        let (layers, build, checkpoints) = if tpl == 0 {
+            all_fit_layer = false;
+            let layers = n.max(1);
+            (layers, layers as f64 * w.build_mm, Vec::new())
+        } else {
+            let layers = n.div_ceil(tpl).max(1);
+            let build = layers as f64 * w.build_mm + (layers - 1) as f64 * s.interlayer_mm;
+            let cps = (1..=layers).map(|l| (l * tpl).min(n)).collect();
+            (layers, build, cps)
+        };
+        let build = w.measured_build_mm.unwrap_or(build);
+        let mid = position + build / 2.0;
+        position += build;
+        let mlt = 2.0 * (core.tongue_mm + core.stack_mm) + 8.0 * s.bobbin_wall_mm + 2.0 * PI * mid;
+        copper += w.turns as f64 * w.strands as f64 * w.area_mm2;
+        coils.push(CoilLayout {
+            coil_turns: n,
+            turns_per_layer: tpl,
+            layers,
+            build_mm: build,
+            mid_mm: mid,
+            mean_turn_mm: mlt,
+            checkpoints,
+        });
+    }
+    let total = s.bobbin_wall_mm + position + s.outer_mm;
+    let available = match core.shape {
+        Shape::Ei => core.window_width_mm - s.clearance_mm,
+        Shape::Ui => core.window_width_mm / 2.0 - s.clearance_mm,
+    };
+    Layout {
+        traverse_mm: traverse,
+        coils,
+        build_mm: total,
+        available_mm: available,
+        fits: all_fit_layer && traverse > 0.0 && total <= available + 1e-9,
+        copper_fill: copper / (core.window_width_mm * core.window_height_mm),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::{CoreDims, Shape};
+    use approx::assert_relative_eq;
+
+    /// Arithmetic of the layout rules is exact.
+    const EXACT: f64 = 1e-9;
+
+    fn coil(turns: u32, d: f64) -> CoilInput {
+        CoilInput {
+            turns,
+            strands: 1,
+            traverse_mm: d,
+            build_mm: d,
+            area_mm2: crate::wire::round_area_mm2(d * 0.95),
+            measured_build_mm: None,
+        }
+    }
+
+    #[test]
+    fn worked_by_hand() {
+        // h 48, wall 1.5 → traverse 45; d 1.0, pitch 1.05 → 42 turns per layer; 100 turns → 3 layers;
+        // build 3·1.0 + 2·0.05 = 3.1; MLT = 2(32 + 40) + 12 + 2π·1.55.
+        let core = CoreDims::new(Shape::Ei, 32.0, 40.0, (16.0, 48.0), 0.95);
+        let l = layout(&core, &LayoutSettings::default(), &[coil(100, 1.0)]);
+        let c = &l.coils[0];
+        assert_eq!((c.turns_per_layer, c.layers), (42, 3));
+        assert_eq!(c.checkpoints, vec![42, 84, 100]);
+        assert_relative_eq!(c.build_mm, 3.1, max_relative = EXACT);
+        assert_relative_eq!(
+            c.mean_turn_mm,
+            156.0 + 2.0 * PI * 1.55,
+            max_relative = EXACT
+        );
+        assert_relative_eq!(l.build_mm, 1.5 + 3.1 + 0.2, max_relative = EXACT);
+        assert!(l.fits);
+    }
+
+    #[test]
+    fn second_winding_sits_outside_the_first() {
+        let core = CoreDims::new(Shape::Ei, 32.0, 40.0, (16.0, 48.0), 0.95);
+        let l = layout(
+            &core,
+            &LayoutSettings::default(),
+            &[coil(100, 1.0), coil(10, 2.0)],
+        );
+        assert_relative_eq!(l.coils[1].mid_mm, 3.1 + 0.25 + 1.0, max_relative = EXACT);
+        assert!(l.coils[1].mean_turn_mm > l.coils[0].mean_turn_mm);
+    }
+
+    #[test]
+    fn too_thick_for_one_turn_does_not_fit() {
+        let core = CoreDims::new(Shape::Ei, 10.0, 10.0, (5.0, 4.0), 0.95);
+        let l = layout(&core, &LayoutSettings::default(), &[coil(10, 2.0)]);
+        assert_eq!(l.coils[0].turns_per_layer, 0);
+        assert!(!l.fits);
+    }
+
+    #[test]
+    fn ui_splits_each_winding_over_two_legs() {
+        let core = CoreDims::new(Shape::Ui, 20.0, 30.0, (20.0, 60.0), 0.95);
+        let l = layout(&core, &LayoutSettings::default(), &[coil(101, 0.5)]);
+        assert_eq!(l.coils[0].coil_turns, 51);
+        assert_relative_eq!(l.available_mm, 9.0, max_relative = EXACT);
+    }
+}

@@ -1,0 +1,22 @@
+//! ironwind: plans the rewinding of salvaged laminated transformer cores.
+//!
+//! A pure library: measured core → geometry; job → plan (turns, wire, layout, losses, heating,
+//! checks); probe measurements → flux limits; renderers for text, JSON, CSV and the bench card.
+//! The command-line interface in `cli` is a thin layer over it.
+#![deny(missing_docs)]
+
+pub mod cli;
+pub mod data;
+pub mod error;
+pub mod geometry;
+pub mod job;
+pub mod layout;
+pub mod losses;
+pub mod magnetics;
+pub mod plan;
+pub mod probe;
+pub mod render;
+pub mod units;
+pub mod wire;
+
+pub use error::{Error, Result};

@@ -1,0 +1,1 @@
+//! The bench card (filled in by the card issue).

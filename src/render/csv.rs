@@ -1,0 +1,87 @@
+//! The winding schedule as CSV, one row per winding, full precision.
+
+use crate::plan::Plan;
+use serde::Serialize;
+use std::io::Write;
+
+/// One CSV row.
+#[derive(Debug, Serialize)]
+pub struct ScheduleRow<'a> {
+    /// Winding name.
+    pub name: &'a str,
+    /// Role.
+    pub role: &'static str,
+    /// Kept donor winding.
+    pub kept: bool,
+    /// Target volts.
+    pub volts: f64,
+    /// Amps.
+    pub amps: f64,
+    /// Turns.
+    pub turns: u32,
+    /// Wire system.
+    pub system: &'static str,
+    /// Wire size.
+    pub size: String,
+    /// Strands in hand.
+    pub strands: u32,
+    /// Overall diameter (build direction), mm.
+    pub overall_mm: f64,
+    /// Current density, A/mm².
+    pub current_density_a_mm2: f64,
+    /// Turns per layer.
+    pub turns_per_layer: u32,
+    /// Layers.
+    pub layers: u32,
+    /// Build, mm.
+    pub build_mm: f64,
+    /// Mean turn, mm.
+    pub mean_turn_mm: f64,
+    /// Wound length, m.
+    pub length_m: f64,
+    /// Cut length, m.
+    pub cut_length_m: f64,
+    /// Hot resistance, Ω.
+    pub resistance_ohm: f64,
+    /// 20 °C resistance, Ω.
+    pub resistance_20c_ohm: f64,
+    /// Copper loss, W.
+    pub copper_loss_w: f64,
+    /// No-load volts.
+    pub volts_no_load: f64,
+    /// Full-load volts.
+    pub volts_full_load: f64,
+}
+
+/// Writes the schedule.
+pub fn write_schedule(out: &mut dyn Write, plan: &Plan) -> std::io::Result<()> {
+    let mut w = csv::Writer::from_writer(out);
+    for p in &plan.windings {
+        w.serialize(ScheduleRow {
+            name: &p.name,
+            role: p.role.name(),
+            kept: p.kept,
+            volts: p.volts,
+            amps: p.amps,
+            turns: p.turns,
+            system: p.wire.conductor.system_name(),
+            size: p.wire.conductor.size_label(),
+            strands: p.wire.strands,
+            overall_mm: p.wire.conductor.build_mm(),
+            current_density_a_mm2: p.current_density_a_mm2,
+            turns_per_layer: p.coil.turns_per_layer,
+            layers: p.coil.layers,
+            build_mm: p.coil.build_mm,
+            mean_turn_mm: p.coil.mean_turn_mm,
+            length_m: p.length_m,
+            cut_length_m: p.cut_length_m,
+            resistance_ohm: p.resistance_ohm,
+            resistance_20c_ohm: p.resistance_20c_ohm,
+            copper_loss_w: p.copper_loss_w,
+            volts_no_load: p.volts_no_load,
+            volts_full_load: p.volts_full_load,
+        })
+        .map_err(std::io::Error::other)?;
+    }
+    w.flush()
+}

@@ -1,0 +1,472 @@
+//! The plan as JSON: serialize-only rows apart from the domain types, full precision.
+//!
+//! The keys are a contract (DESIGN.md, "JSON of plan"); `tests/` holds a typed mirror with
+//! `deny_unknown_fields` that fails when a key goes missing or appears unannounced.
+
+use crate::plan::Plan;
+use crate::wire::Conductor;
+use serde::Serialize;
+use std::io::Write;
+
+/// Default spare allowance on the buy list, fraction.
+pub const DEFAULT_SPARE: f64 = 0.10;
+
+/// The plan's JSON document.
+#[derive(Debug, Serialize)]
+pub struct PlanJson<'a> {
+    /// Job name.
+    pub name: &'a str,
+    /// Core.
+    pub core: CoreJson<'a>,
+    /// Drive.
+    pub drive: DriveJson<'a>,
+    /// Windings.
+    pub windings: Vec<WindingJson<'a>>,
+    /// Window.
+    pub window: WindowJson,
+    /// Losses.
+    pub losses: LossesJson,
+    /// Heating.
+    pub thermal: ThermalJson,
+    /// Probe results (null without a probe).
+    pub probe: Option<ProbeJson>,
+    /// What to buy.
+    pub buy: Vec<BuyRow>,
+    /// Verdict.
+    pub verdict: VerdictJson<'a>,
+    /// Warnings.
+    pub warnings: &'a [String],
+    /// Cautions.
+    pub cautions: &'a [String],
+}
+
+/// Core keys.
+#[derive(Debug, Serialize)]
+pub struct CoreJson<'a> {
+    /// `ei` or `ui`.
+    pub shape: &'a str,
+    /// Tongue, mm.
+    pub tongue_mm: f64,
+    /// Stack, mm.
+    pub stack_mm: f64,
+    /// Window width, mm.
+    pub window_width_mm: f64,
+    /// Window height, mm.
+    pub window_height_mm: f64,
+    /// Stacking factor.
+    pub stacking_factor: f64,
+    /// Steel name.
+    pub steel: &'a str,
+    /// Steel kind.
+    pub steel_kind: &'a str,
+    /// Specific loss used, W/kg at 1.5 T 50 Hz (estimate).
+    pub steel_loss_w_per_kg: f64,
+    /// Gross area, mm².
+    pub area_gross_mm2: f64,
+    /// Net area, mm².
+    pub area_net_mm2: f64,
+    /// Window area, mm².
+    pub window_area_mm2: f64,
+    /// Area product, cm⁴.
+    pub area_product_cm4: f64,
+    /// Mass, kg.
+    pub mass_kg: f64,
+    /// Whether the mass was measured.
+    pub mass_measured: bool,
+    /// Path length, mm.
+    pub path_length_mm: f64,
+}
+
+/// Drive keys.
+#[derive(Debug, Serialize)]
+pub struct DriveJson<'a> {
+    /// Frequency, Hz.
+    pub frequency_hz: f64,
+    /// Waveform name.
+    pub waveform: &'a str,
+    /// Duty (1 unless quasi-square).
+    pub duty: f64,
+    /// Actual flux, T.
+    pub flux_density_t: f64,
+    /// Design flux, T.
+    pub design_flux_t: f64,
+    /// Where the design flux came from.
+    pub flux_source: &'a str,
+    /// Flux ceiling, T.
+    pub flux_limit_t: f64,
+    /// Volts per turn.
+    pub volts_per_turn: f64,
+    /// Turns per volt.
+    pub turns_per_volt: f64,
+    /// Primary RMS volts.
+    pub primary_rms_volts: f64,
+    /// Primary current, A.
+    pub primary_amps: f64,
+    /// Predicted no-load current, A (null without a sweep).
+    pub no_load_amps: Option<f64>,
+    /// Flux over the donor's flux (null without a test winding).
+    pub flux_vs_donor: Option<f64>,
+}
+
+/// Conductor keys.
+#[derive(Debug, Serialize)]
+pub struct ConductorJson {
+    /// `metric`, `awg` or `strip`.
+    pub system: &'static str,
+    /// Size label.
+    pub size: String,
+    /// Enamel grade or build.
+    pub grade: String,
+    /// Bare diameter or strip thickness, mm.
+    pub bare_mm: f64,
+    /// Overall diameter or insulated strip thickness, mm.
+    pub overall_mm: f64,
+    /// Along the traverse: overall diameter or insulated strip width, mm.
+    pub overall_width_mm: f64,
+    /// Copper area of one strand, mm².
+    pub area_mm2: f64,
+}
+
+/// A tap.
+#[derive(Debug, Serialize)]
+pub struct TapJson {
+    /// Volts.
+    pub volts: f64,
+    /// Turn number.
+    pub turn: u32,
+}
+
+/// Winding keys.
+#[derive(Debug, Serialize)]
+pub struct WindingJson<'a> {
+    /// Name.
+    pub name: &'a str,
+    /// Role.
+    pub role: &'static str,
+    /// Kept donor winding.
+    pub kept: bool,
+    /// Target volts.
+    pub volts: f64,
+    /// Full-load amps.
+    pub amps: f64,
+    /// Turns.
+    pub turns: u32,
+    /// Turns on one coil (half for `ui`).
+    pub coil_turns: u32,
+    /// Strands in hand.
+    pub strands: u32,
+    /// Conductor.
+    pub conductor: ConductorJson,
+    /// Current density, A/mm².
+    pub current_density_a_mm2: f64,
+    /// Turns per layer.
+    pub turns_per_layer: u32,
+    /// Layers.
+    pub layers: u32,
+    /// Build, mm.
+    pub build_mm: f64,
+    /// Running turn count at the end of each layer.
+    pub checkpoints: &'a [u32],
+    /// Mean turn, mm.
+    pub mean_turn_mm: f64,
+    /// Wound length, m.
+    pub length_m: f64,
+    /// Cut length with leads, m (per strand).
+    pub cut_length_m: f64,
+    /// Hot resistance, Ω.
+    pub resistance_ohm: f64,
+    /// 20 °C resistance, Ω.
+    pub resistance_20c_ohm: f64,
+    /// Copper loss, W.
+    pub copper_loss_w: f64,
+    /// Copper mass, g.
+    pub copper_mass_g: f64,
+    /// No-load volts.
+    pub volts_no_load: f64,
+    /// Full-load volts.
+    pub volts_full_load: f64,
+    /// The most this winding delivers at full load, V.
+    pub max_volts_full_load: Option<f64>,
+    /// Taps.
+    pub taps: Vec<TapJson>,
+}
+
+/// Window keys.
+#[derive(Debug, Serialize)]
+pub struct WindowJson {
+    /// Copper fill.
+    pub copper_fill: f64,
+    /// Total build, mm.
+    pub build_mm: f64,
+    /// Available, mm.
+    pub available_mm: f64,
+    /// Traverse, mm.
+    pub traverse_mm: f64,
+    /// Fits.
+    pub fits: bool,
+}
+
+/// Loss keys.
+#[derive(Debug, Serialize)]
+pub struct LossesJson {
+    /// Core loss, W.
+    pub core_w: f64,
+    /// Copper loss, W.
+    pub copper_w: f64,
+    /// Output power, W.
+    pub output_w: f64,
+    /// Efficiency.
+    pub efficiency: f64,
+    /// Regulation, %.
+    pub regulation_pct: f64,
+}
+
+/// Thermal keys.
+#[derive(Debug, Serialize)]
+pub struct ThermalJson {
+    /// Surface, cm².
+    pub surface_cm2: f64,
+    /// Rise, °C.
+    pub rise_c: f64,
+    /// Ambient, °C.
+    pub ambient_c: f64,
+    /// Hot winding temperature, °C.
+    pub hot_c: f64,
+    /// Allowed rise, °C.
+    pub max_rise_c: f64,
+}
+
+/// Probe keys.
+#[derive(Debug, Serialize)]
+pub struct ProbeJson {
+    /// Volts per turn.
+    pub volts_per_turn: Option<f64>,
+    /// Donor flux, T.
+    pub donor_flux_t: Option<f64>,
+    /// IEC knee volts.
+    pub knee_volts: Option<f64>,
+    /// IEC knee flux, T.
+    pub knee_flux_t: Option<f64>,
+    /// 45° tangent flux, T.
+    pub tangent_flux_t: Option<f64>,
+    /// Recommended flux, T.
+    pub recommended_flux_t: Option<f64>,
+}
+
+/// A buy-list row.
+#[derive(Debug, Clone, Serialize)]
+pub struct BuyRow {
+    /// Size label.
+    pub size: String,
+    /// System.
+    pub system: &'static str,
+    /// Length with spare, m.
+    pub length_m: f64,
+    /// Mass with spare, g.
+    pub mass_g: f64,
+    /// Spare allowance, %.
+    pub spare_pct: f64,
+}
+
+/// A check.
+#[derive(Debug, Serialize)]
+pub struct CheckJson<'a> {
+    /// Name.
+    pub name: &'a str,
+    /// Passes.
+    pub ok: bool,
+    /// Detail.
+    pub detail: &'a str,
+}
+
+/// Verdict.
+#[derive(Debug, Serialize)]
+pub struct VerdictJson<'a> {
+    /// All pass.
+    pub ok: bool,
+    /// Checks.
+    pub checks: Vec<CheckJson<'a>>,
+}
+
+/// The wire to buy, grouped by size: every strand's cut length, with a spare allowance.
+pub fn buy_list(plan: &Plan, spare: f64) -> Vec<BuyRow> {
+    let mut rows: Vec<BuyRow> = Vec::new();
+    for w in plan.windings.iter().filter(|w| !w.kept) {
+        let size = w.wire.conductor.size_label();
+        let system = w.wire.conductor.system_name();
+        let strands = w.wire.strands as f64;
+        let len = w.cut_length_m * strands * (1.0 + spare);
+        let mass = w.copper_mass_g * (1.0 + spare);
+        match rows
+            .iter_mut()
+            .find(|r| r.size == size && r.system == system)
+        {
+            Some(r) => {
+                r.length_m += len;
+                r.mass_g += mass;
+            }
+            None => rows.push(BuyRow {
+                size,
+                system,
+                length_m: len,
+                mass_g: mass,
+                spare_pct: spare * 100.0,
+            }),
+        }
+    }
+    rows
+}
+
+/// Builds the JSON document of a plan.
+pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
+    let g = &plan.geometry;
+    PlanJson {
+        name: &plan.name,
+        core: CoreJson {
+            shape: plan.core.shape.name(),
+            tongue_mm: plan.core.tongue_mm,
+            stack_mm: plan.core.stack_mm,
+            window_width_mm: plan.core.window_width_mm,
+            window_height_mm: plan.core.window_height_mm,
+            stacking_factor: plan.core.stacking_factor,
+            steel: &plan.steel.name,
+            steel_kind: &plan.steel.kind,
+            steel_loss_w_per_kg: plan.steel.loss_w_per_kg_1t5,
+            area_gross_mm2: g.area_gross_mm2,
+            area_net_mm2: g.area_net_mm2,
+            window_area_mm2: g.window_area_mm2,
+            area_product_cm4: g.area_product_cm4,
+            mass_kg: g.mass_kg,
+            mass_measured: g.mass_measured,
+            path_length_mm: g.path_length_mm,
+        },
+        drive: DriveJson {
+            frequency_hz: plan.drive.frequency_hz,
+            waveform: plan.drive.waveform.name(),
+            duty: match plan.drive.waveform {
+                crate::magnetics::Waveform::QuasiSquare { duty } => duty,
+                _ => 1.0,
+            },
+            flux_density_t: plan.drive.flux_density_t,
+            design_flux_t: plan.drive.design_flux_t,
+            flux_source: &plan.drive.flux_source,
+            flux_limit_t: plan.drive.flux_limit_t,
+            volts_per_turn: plan.drive.volts_per_turn,
+            turns_per_volt: 1.0 / plan.drive.volts_per_turn,
+            primary_rms_volts: plan.drive.primary_rms_volts,
+            primary_amps: plan.drive.primary_amps,
+            no_load_amps: plan.drive.no_load_amps,
+            flux_vs_donor: plan.drive.flux_vs_donor,
+        },
+        windings: plan
+            .windings
+            .iter()
+            .map(|w| {
+                let c = &w.wire.conductor;
+                WindingJson {
+                    name: &w.name,
+                    role: w.role.name(),
+                    kept: w.kept,
+                    volts: w.volts,
+                    amps: w.amps,
+                    turns: w.turns,
+                    coil_turns: w.coil.coil_turns,
+                    strands: w.wire.strands,
+                    conductor: ConductorJson {
+                        system: c.system_name(),
+                        size: c.size_label(),
+                        grade: w.grade_label.clone(),
+                        bare_mm: c.bare_mm(),
+                        overall_mm: c.build_mm(),
+                        overall_width_mm: c.traverse_mm(),
+                        area_mm2: c.area_mm2(),
+                    },
+                    current_density_a_mm2: w.current_density_a_mm2,
+                    turns_per_layer: w.coil.turns_per_layer,
+                    layers: w.coil.layers,
+                    build_mm: w.coil.build_mm,
+                    checkpoints: &w.coil.checkpoints,
+                    mean_turn_mm: w.coil.mean_turn_mm,
+                    length_m: w.length_m,
+                    cut_length_m: w.cut_length_m,
+                    resistance_ohm: w.resistance_ohm,
+                    resistance_20c_ohm: w.resistance_20c_ohm,
+                    copper_loss_w: w.copper_loss_w,
+                    copper_mass_g: w.copper_mass_g,
+                    volts_no_load: w.volts_no_load,
+                    volts_full_load: w.volts_full_load,
+                    max_volts_full_load: w.max_volts_full_load.filter(|v| v.is_finite()),
+                    taps: w
+                        .taps
+                        .iter()
+                        .map(|t| TapJson {
+                            volts: t.volts,
+                            turn: t.turn,
+                        })
+                        .collect(),
+                }
+            })
+            .collect(),
+        window: WindowJson {
+            copper_fill: plan.window.copper_fill,
+            build_mm: plan.window.build_mm,
+            available_mm: plan.window.available_mm,
+            traverse_mm: plan.window.traverse_mm,
+            fits: plan.window.fits,
+        },
+        losses: LossesJson {
+            core_w: plan.losses.core_w,
+            copper_w: plan.losses.copper_w,
+            output_w: plan.losses.output_w,
+            efficiency: plan.losses.efficiency,
+            regulation_pct: plan.losses.regulation_pct,
+        },
+        thermal: ThermalJson {
+            surface_cm2: plan.thermal.surface_cm2,
+            rise_c: plan.thermal.rise_c,
+            ambient_c: plan.thermal.ambient_c,
+            hot_c: plan.thermal.hot_c,
+            max_rise_c: plan.thermal.max_rise_c,
+        },
+        probe: plan.probe.as_ref().map(|p| ProbeJson {
+            volts_per_turn: p.volts_per_turn,
+            donor_flux_t: p.donor_flux_t,
+            knee_volts: p.knee_volts,
+            knee_flux_t: p.knee_flux_t,
+            tangent_flux_t: p.tangent_flux_t,
+            recommended_flux_t: p.recommended_flux_t,
+        }),
+        buy: buy_list(plan, spare),
+        verdict: VerdictJson {
+            ok: plan.verdict.ok,
+            checks: plan
+                .verdict
+                .checks
+                .iter()
+                .map(|c| CheckJson {
+                    name: &c.name,
+                    ok: c.ok,
+                    detail: &c.detail,
+                })
+                .collect(),
+        },
+        warnings: &plan.warnings,
+        cautions: &plan.cautions,
+    }
+}
+
+/// Writes any serializable value as pretty JSON with a trailing newline.
+pub fn write_json<T: Serialize>(out: &mut dyn Write, value: &T) -> std::io::Result<()> {
+    serde_json::to_writer_pretty(&mut *out, value).map_err(std::io::Error::other)?;
+    writeln!(out)
+}
+
+/// Writes the plan as JSON.
+pub fn write_plan(out: &mut dyn Write, plan: &Plan) -> std::io::Result<()> {
+    write_json(out, &plan_json(plan, DEFAULT_SPARE))
+}
+
+/// Whether a conductor is strip (used by renderers).
+pub fn is_strip(c: &Conductor) -> bool {
+    matches!(c, Conductor::Strip { .. })
+}

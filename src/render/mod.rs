@@ -1,0 +1,134 @@
+//! Renderers: each output format is one function over a computed result, writing to `&mut dyn Write`.
+//!
+//! Compute once, render many. Numbers shown to people are rounded per quantity; JSON carries full
+//! precision. Nothing here depends on the locale.
+
+pub mod card;
+pub mod csv;
+pub mod json;
+pub mod svg;
+pub mod text;
+
+use tabled::builder::Builder;
+use tabled::settings::object::Columns;
+use tabled::settings::{Alignment, Style};
+
+/// Table look: box-drawing characters, or plain ASCII.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Charset {
+    /// Unicode box drawing.
+    #[default]
+    Unicode,
+    /// Plain ASCII only.
+    Ascii,
+}
+
+/// Builds a table from rows (the first is the header) with numbers right-aligned from `right_from`.
+pub fn table(rows: Vec<Vec<String>>, right_from: usize, charset: Charset) -> String {
+    let mut b = Builder::default();
+    for r in rows {
+        b.push_record(r);
+    }
+    let mut t = b.build();
+    match charset {
+        Charset::Unicode => t.with(Style::rounded()),
+        Charset::Ascii => t.with(Style::ascii()),
+    };
+    t.modify(Columns::new(right_from..), Alignment::right());
+    t.to_string()
+}
+
+/// A two-column table of labels and values, without a header row.
+pub fn pairs(rows: &[(&str, String)], charset: Charset) -> String {
+    let mut b = Builder::default();
+    for (k, v) in rows {
+        b.push_record([k.to_string(), v.clone()]);
+    }
+    let mut t = b.build();
+    match charset {
+        Charset::Unicode => t.with(Style::rounded().remove_horizontals()),
+        Charset::Ascii => t.with(Style::ascii().remove_horizontals()),
+    };
+    t.to_string()
+}
+
+/// A number with `d` decimals; NaN and infinities as words (they should never reach a person).
+pub fn num(v: f64, d: usize) -> String {
+    if v.is_finite() {
+        let s = format!("{v:.d$}");
+        if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+            s[1..].to_string()
+        } else {
+            s
+        }
+    } else {
+        "n/a".to_string()
+    }
+}
+
+/// A number with about three significant figures for quantities that span decades (Ω, A).
+pub fn sig3(v: f64) -> String {
+    if !v.is_finite() {
+        return "n/a".to_string();
+    }
+    let a = v.abs();
+    let d = if a == 0.0 || a >= 100.0 {
+        0
+    } else if a >= 10.0 {
+        1
+    } else if a >= 1.0 {
+        2
+    } else if a >= 0.1 {
+        3
+    } else if a >= 0.01 {
+        4
+    } else {
+        5
+    };
+    num(v, d)
+}
+
+/// Replaces the few non-ASCII symbols ironwind prints with ASCII equivalents.
+pub fn asciify(s: &str) -> String {
+    s.replace('°', " deg ")
+        .replace("deg C", "degC")
+        .replace("  deg", " deg")
+        .replace('²', "2")
+        .replace('³', "3")
+        .replace('⁴', "4")
+        .replace('≤', "<=")
+        .replace('≥', ">=")
+        .replace('×', "x")
+        .replace('Ω', "ohm")
+        .replace('√', "sqrt")
+        .replace(['–', '—'], "-")
+        .replace('·', "*")
+        .replace('δ', "duty")
+        .replace(['“', '”'], "\"")
+        .replace('’', "'")
+        .replace('…', "...")
+        .replace('✓', "ok")
+        .replace('✗', "FAIL")
+        .chars()
+        .map(|c| if c.is_ascii() { c } else { '?' })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn numbers_round_without_negative_zero() {
+        assert_eq!(num(-0.0001, 2), "0.00");
+        assert_eq!(num(1.005, 1), "1.0");
+        assert_eq!(num(f64::NAN, 2), "n/a");
+        assert_eq!(sig3(0.01234), "0.0123");
+        assert_eq!(sig3(123.4), "123");
+    }
+
+    #[test]
+    fn ascii_is_ascii() {
+        assert!(asciify("1.2 Ω at 20 °C, 3 mm² ≤ 4 × 5 ✓").is_ascii());
+    }
+}

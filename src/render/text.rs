@@ -1,0 +1,308 @@
+//! The plan as text tables for a terminal.
+
+use super::{num, pairs, sig3, table, Charset};
+use crate::magnetics::Waveform;
+use crate::plan::Plan;
+use std::io::Write;
+
+/// Writes the whole plan as tables.
+pub fn write_plan(out: &mut dyn Write, plan: &Plan, cs: Charset) -> std::io::Result<()> {
+    let text = plan_text(plan, cs);
+    let text = if cs == Charset::Ascii {
+        super::asciify(&text)
+    } else {
+        text
+    };
+    out.write_all(text.as_bytes())
+}
+
+/// The plan as one string.
+pub fn plan_text(plan: &Plan, cs: Charset) -> String {
+    let mut s = String::new();
+    let g = &plan.geometry;
+    let c = &plan.core;
+    s += &format!("ironwind plan: {}\n\n", plan.name);
+    s += "Core\n";
+    s += &pairs(
+        &[
+            (
+                "shape",
+                format!(
+                    "{} ({})",
+                    c.shape.name(),
+                    if c.shape.name() == "ei" {
+                        "shell, coil on the tongue"
+                    } else {
+                        "core type, half-coil on each leg"
+                    }
+                ),
+            ),
+            (
+                "tongue × stack",
+                format!("{} × {} mm", num(c.tongue_mm, 2), num(c.stack_mm, 2)),
+            ),
+            (
+                "window w × h",
+                format!(
+                    "{} × {} mm",
+                    num(c.window_width_mm, 2),
+                    num(c.window_height_mm, 2)
+                ),
+            ),
+            ("stacking factor", num(c.stacking_factor, 3)),
+            (
+                "steel",
+                format!(
+                    "{} ({}, loss estimate {} W/kg at 1.5 T 50 Hz)",
+                    plan.steel.name,
+                    plan.steel.kind,
+                    num(plan.steel.loss_w_per_kg_1t5, 2)
+                ),
+            ),
+            (
+                "Ae gross / net",
+                format!(
+                    "{} / {} mm²",
+                    num(g.area_gross_mm2, 1),
+                    num(g.area_net_mm2, 1)
+                ),
+            ),
+            (
+                "Aw (one window)",
+                format!("{} mm²", num(g.window_area_mm2, 1)),
+            ),
+            (
+                "area product Ap",
+                format!("{} cm⁴", num(g.area_product_cm4, 2)),
+            ),
+            ("path length le", format!("{} mm", num(g.path_length_mm, 1))),
+            (
+                "core mass",
+                format!(
+                    "{} kg{}",
+                    num(g.mass_kg, 3),
+                    if g.mass_measured {
+                        " (weighed)"
+                    } else {
+                        " (from the outline)"
+                    }
+                ),
+            ),
+        ],
+        cs,
+    );
+    let d = &plan.drive;
+    let wf = match d.waveform {
+        Waveform::Sine => "sine (primary volts RMS)".to_string(),
+        Waveform::Square => "square (primary volts = amplitude)".to_string(),
+        Waveform::QuasiSquare { duty } => format!(
+            "quasi-square, duty {} (primary volts = amplitude)",
+            num(duty, 3)
+        ),
+    };
+    let mut drive = vec![
+        ("frequency", format!("{} Hz", num(d.frequency_hz, 1))),
+        ("waveform", wf),
+        (
+            "flux density",
+            format!(
+                "{} T peak (aimed at {} T: {})",
+                num(d.flux_density_t, 3),
+                num(d.design_flux_t, 2),
+                d.flux_source
+            ),
+        ),
+        ("volts per turn", format!("{} V", num(d.volts_per_turn, 4))),
+        ("turns per volt", num(1.0 / d.volts_per_turn, 4)),
+        (
+            "primary current",
+            format!("{} A RMS at full load", sig3(d.primary_amps)),
+        ),
+    ];
+    if let Some(i0) = d.no_load_amps {
+        drive.push((
+            "no-load current",
+            format!("{} A RMS (from the sweep, approximate)", sig3(i0)),
+        ));
+    }
+    if let Some(r) = d.flux_vs_donor {
+        drive.push(("flux vs donor", format!("× {}", num(r, 3))));
+    }
+    s += "\nDrive\n";
+    s += &pairs(&drive, cs);
+    if let Some(p) = &plan.probe {
+        let mut rows = Vec::new();
+        if let Some(v) = p.volts_per_turn {
+            rows.push(("measured volts per turn", format!("{} V", num(v, 4))));
+        }
+        if let Some(b) = p.donor_flux_t {
+            rows.push(("donor ran at", format!("{} T", num(b, 3))));
+        }
+        if let (Some(v), Some(b)) = (p.knee_volts, p.knee_flux_t) {
+            rows.push((
+                "IEC knee",
+                format!("{} V on the swept winding, {} T", num(v, 2), num(b, 3)),
+            ));
+        }
+        if let Some(b) = p.tangent_flux_t {
+            rows.push(("45° tangent point", format!("{} T", num(b, 3))));
+        }
+        if let Some(b) = p.recommended_flux_t {
+            rows.push((
+                "recommended maximum",
+                format!("{} T (0.9 × IEC knee)", num(b, 3)),
+            ));
+        }
+        if !rows.is_empty() {
+            s += "\nProbe\n";
+            s += &pairs(&rows, cs);
+        }
+    }
+    s += "\nWindings (innermost first)\n";
+    let mut rows = vec![vec![
+        "winding".to_string(),
+        "role".into(),
+        "volts".into(),
+        "amps".into(),
+        "turns".into(),
+        "wire".into(),
+        "strands".into(),
+        "OD mm".into(),
+        "A/mm²".into(),
+        "turns/layer".into(),
+        "layers".into(),
+        "build mm".into(),
+    ]];
+    for w in &plan.windings {
+        rows.push(vec![
+            if w.kept {
+                format!("{} (kept)", w.name)
+            } else {
+                w.name.clone()
+            },
+            w.role.name().to_string(),
+            num(w.volts, 2),
+            sig3(w.amps),
+            w.turns.to_string(),
+            w.wire.conductor.describe(),
+            w.wire.strands.to_string(),
+            num(w.wire.conductor.build_mm(), 3),
+            num(w.current_density_a_mm2, 2),
+            w.coil.turns_per_layer.to_string(),
+            w.coil.layers.to_string(),
+            num(w.coil.build_mm, 2),
+        ]);
+    }
+    s += &table(rows, 2, cs);
+    if plan.core.shape.name() == "ui" {
+        s += "\n(U-I core: each winding is split over the two legs; turns per layer, layers and build are per half-coil.)";
+    }
+    s += "\n\nElectrical\n";
+    let mut rows = vec![vec![
+        "winding".to_string(),
+        "mean turn mm".into(),
+        "length m".into(),
+        format!("R at {} °C Ω", num(plan.thermal.resistance_at_c, 0)),
+        "copper W".into(),
+        "no-load V".into(),
+        "full-load V".into(),
+    ]];
+    for w in &plan.windings {
+        rows.push(vec![
+            w.name.clone(),
+            num(w.coil.mean_turn_mm, 1),
+            num(w.length_m, 2),
+            sig3(w.resistance_ohm),
+            num(w.copper_loss_w, 2),
+            num(w.volts_no_load, 2),
+            num(w.volts_full_load, 2),
+        ]);
+    }
+    s += &table(rows, 1, cs);
+    for w in plan.windings.iter().filter(|w| !w.taps.is_empty()) {
+        let list: Vec<String> = w
+            .taps
+            .iter()
+            .map(|t| format!("{} V at turn {}", num(t.volts, 2), t.turn))
+            .collect();
+        s += &format!("\ntaps on \"{}\": {}", w.name, list.join(", "));
+    }
+    s += "\n\nWindow, losses and heating\n";
+    let win = &plan.window;
+    let l = &plan.losses;
+    let t = &plan.thermal;
+    s += &pairs(
+        &[
+            ("copper fill", num(win.copper_fill, 3)),
+            (
+                "build",
+                format!(
+                    "{} mm of {} mm available ({})",
+                    num(win.build_mm, 2),
+                    num(win.available_mm, 2),
+                    if win.fits { "fits" } else { "does not fit" }
+                ),
+            ),
+            ("core loss", format!("{} W (estimate)", num(l.core_w, 2))),
+            ("copper loss", format!("{} W", num(l.copper_w, 2))),
+            ("output", format!("{} W", num(l.output_w, 1))),
+            ("efficiency", format!("{} %", num(l.efficiency * 100.0, 1))),
+            ("regulation", format!("{} %", num(l.regulation_pct, 1))),
+            ("surface", format!("{} cm²", num(t.surface_cm2, 0))),
+            (
+                "temperature rise",
+                format!(
+                    "{} °C (limit {} °C)",
+                    num(t.rise_c, 1),
+                    num(t.max_rise_c, 0)
+                ),
+            ),
+            (
+                "hot winding",
+                format!(
+                    "{} °C at {} °C ambient",
+                    num(t.hot_c, 1),
+                    num(t.ambient_c, 0)
+                ),
+            ),
+        ],
+        cs,
+    );
+    s += &warnings_and_verdict(plan, cs);
+    s
+}
+
+/// Warnings, the verdict table and the cautions, shared by the plan and the demo.
+pub fn warnings_and_verdict(plan: &Plan, cs: Charset) -> String {
+    let mut s = String::new();
+    if !plan.warnings.is_empty() {
+        s += "\n\nWarnings\n";
+        for w in &plan.warnings {
+            s += &format!("  ! {w}\n");
+        }
+    } else {
+        s += "\n";
+    }
+    s += &format!(
+        "\nVerdict: {}\n",
+        if plan.verdict.ok {
+            "every check passes"
+        } else {
+            "DOES NOT PASS"
+        }
+    );
+    let mut rows = vec![vec!["check".to_string(), "result".into(), "detail".into()]];
+    for c in &plan.verdict.checks {
+        rows.push(vec![
+            c.name.clone(),
+            if c.ok { "ok".into() } else { "FAIL".into() },
+            c.detail.clone(),
+        ]);
+    }
+    s += &table(rows, 99, cs);
+    s += "\n\nCautions\n";
+    for c in &plan.cautions {
+        s += &format!("  * {c}\n");
+    }
+    s
+}

@@ -1,0 +1,9 @@
+//! Integration tests: each module drives the real `ironwind` binary through one command.
+
+mod common;
+mod contract;
+mod core_cmd;
+mod demo;
+mod input_errors;
+mod plan_cmd;
+mod wire_cmd;
