@@ -108,6 +108,52 @@ enum Command {
         #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
         format: SimpleFormat,
     },
+    /// Read a donor core's test winding and magnetisation sweep: volts per turn, flux, knee points
+    #[command(
+        allow_negative_numbers = true,
+        after_help = "Examples:\n  ironwind probe --test-turns 10 --test-volts 2.31 --applied-volts 230 --frequency 50 --tongue 38 --stack 62\n  ironwind probe --sweep examples/ups_donor_sweep.csv --sweep-turns 511 --frequency 50 --tongue 38 --stack 50 --window 19x57 --plot sweep.svg"
+    )]
+    Probe {
+        /// Turns of the test winding wound over the existing one
+        #[arg(long, requires_all = ["test_volts", "applied_volts"])]
+        test_turns: Option<u32>,
+        /// Volts read on the test winding, V RMS
+        #[arg(long, requires = "test_turns")]
+        test_volts: Option<f64>,
+        /// Volts applied to the existing winding, V RMS
+        #[arg(long, requires = "test_turns")]
+        applied_volts: Option<f64>,
+        /// Sweep CSV with header volts,amps (V RMS, A RMS)
+        #[arg(long, requires = "sweep_turns")]
+        sweep: Option<PathBuf>,
+        /// Turns of the swept winding
+        #[arg(long, requires = "sweep")]
+        sweep_turns: Option<u32>,
+        /// Frequency of the applied voltage, Hz
+        #[arg(long, default_value_t = 50.0)]
+        frequency: f64,
+        /// Tongue width, mm or with a unit
+        #[arg(long)]
+        tongue: String,
+        /// Stack depth, mm or with a unit
+        #[arg(long)]
+        stack: String,
+        /// One window, WIDTHxHEIGHT in mm, for the path length (field strength)
+        #[arg(long)]
+        window: Option<String>,
+        /// Lamination shape
+        #[arg(long, value_enum, default_value_t = ShapeArg::Ei)]
+        shape: ShapeArg,
+        /// Stacking factor, > 0.5 and ≤ 1
+        #[arg(long, default_value_t = 0.95)]
+        stacking: f64,
+        /// Write the sweep as an SVG chart to this file
+        #[arg(long, requires = "sweep")]
+        plot: Option<PathBuf>,
+        /// Output format
+        #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
+        format: SimpleFormat,
+    },
     /// Plan the bundled example job end to end (no files needed)
     #[command(after_help = "Example:\n  ironwind demo\n  ironwind demo --format json")]
     Demo {
@@ -225,6 +271,37 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         } => {
             let dims = core_from_flags(&tongue, &stack, &window, shape, stacking)?;
             write_core(out, &dims, format, cs)?;
+        }
+        Command::Probe {
+            test_turns,
+            test_volts,
+            applied_volts,
+            sweep,
+            sweep_turns,
+            frequency,
+            tongue,
+            stack,
+            window,
+            shape,
+            stacking,
+            plot,
+            format,
+        } => {
+            let args = ProbeArgs {
+                test_turns,
+                test_volts,
+                applied_volts,
+                sweep,
+                sweep_turns,
+                frequency,
+                tongue,
+                stack,
+                window,
+                shape,
+                stacking,
+                plot,
+            };
+            probe_command(out, args, format, cs)?;
         }
         Command::Wire {
             list,
@@ -450,6 +527,239 @@ fn write_core(out: &mut dyn Write, d: &CoreDims, format: SimpleFormat, cs: Chars
         }
     }
     .map_err(out_err)
+}
+
+struct ProbeArgs {
+    test_turns: Option<u32>,
+    test_volts: Option<f64>,
+    applied_volts: Option<f64>,
+    sweep: Option<PathBuf>,
+    sweep_turns: Option<u32>,
+    frequency: f64,
+    tongue: String,
+    stack: String,
+    window: Option<String>,
+    shape: ShapeArg,
+    stacking: f64,
+    plot: Option<PathBuf>,
+}
+
+fn flag_range(flag: &str, v: f64, lo: f64, hi: f64, unit: &str) -> Result<f64> {
+    if v.is_finite() && v > lo && v <= hi {
+        Ok(v)
+    } else {
+        Err(Error::bad_value(
+            "command line",
+            flag,
+            v,
+            format!("must be > {lo} {unit} and ≤ {hi} {unit}"),
+        ))
+    }
+}
+
+fn probe_command(
+    out: &mut dyn Write,
+    a: ProbeArgs,
+    format: SimpleFormat,
+    cs: Charset,
+) -> Result<()> {
+    use crate::probe::{probe_run, sweep_plot, TestWinding};
+    if a.test_turns.is_none() && a.sweep.is_none() {
+        return Err(Error::bad_value(
+            "command line",
+            "--test-turns / --sweep",
+            "(neither)",
+            "give a test winding (--test-turns, --test-volts, --applied-volts) or a sweep (--sweep, --sweep-turns), or both",
+        ));
+    }
+    let f = a.frequency;
+    if !(f.is_finite() && (1.0..=2000.0).contains(&f)) {
+        return Err(Error::bad_value(
+            "command line",
+            "--frequency",
+            f,
+            "must be ≥ 1 Hz and ≤ 2000 Hz",
+        ));
+    }
+    let window = a.window.clone().unwrap_or_else(|| "1x1".to_string());
+    let dims = core_from_flags(&a.tongue, &a.stack, &window, a.shape, a.stacking)?;
+    let mut g = geometry(&dims);
+    let path_estimated = a.window.is_none();
+    if path_estimated {
+        // Scrapless E-I proportions: window a/2 × 1.5a (McLyman).
+        let t = dims.tongue_mm;
+        g = geometry(&CoreDims::new(
+            dims.shape,
+            t,
+            dims.stack_mm,
+            (t / 2.0, 1.5 * t),
+            dims.stacking_factor,
+        ));
+    }
+    let test = match (a.test_turns, a.test_volts, a.applied_volts) {
+        (Some(n), Some(v), Some(ap)) => {
+            if !(1..=10_000).contains(&n) {
+                return Err(Error::bad_value(
+                    "command line",
+                    "--test-turns",
+                    n,
+                    "must be ≥ 1 and ≤ 10000",
+                ));
+            }
+            Some(TestWinding {
+                turns: n,
+                volts: flag_range("--test-volts", v, 0.0, 10_000.0, "V")?,
+                applied_volts: flag_range("--applied-volts", ap, 0.0, 100_000.0, "V")?,
+                applied_to: None,
+            })
+        }
+        _ => None,
+    };
+    let curve = match (&a.sweep, a.sweep_turns) {
+        (Some(path), Some(n)) => {
+            if !(1..=100_000).contains(&n) {
+                return Err(Error::bad_value(
+                    "command line",
+                    "--sweep-turns",
+                    n,
+                    "must be ≥ 1 and ≤ 100000",
+                ));
+            }
+            let name = path.display().to_string();
+            let text = read_text(path)?;
+            let pts = read_sweep(&name, text.as_bytes())?;
+            let c = crate::magnetics::ExcitationCurve::new(
+                &pts.iter().map(|p| (p.volts, p.amps)).collect::<Vec<_>>(),
+            )
+            .map_err(|m| Error::bad_input(&name, m))?;
+            Some((c, n))
+        }
+        _ => None,
+    };
+    let run = probe_run(
+        test.as_ref(),
+        curve.as_ref().map(|(c, n)| (c, *n)),
+        f,
+        g.area_net_mm2,
+        g.path_length_mm,
+        path_estimated,
+    );
+    if let Some(p) = &a.plot {
+        write_file(p, sweep_plot(&run).as_bytes())?;
+    }
+    match format {
+        SimpleFormat::Json => render::json::write_json(out, &run),
+        SimpleFormat::Text => {
+            let s = probe_text(&run, cs);
+            let s = if cs == Charset::Ascii {
+                render::asciify(&s)
+            } else {
+                s
+            };
+            write!(out, "{s}")
+        }
+    }
+    .map_err(out_err)
+}
+
+fn probe_text(r: &crate::probe::ProbeRun, cs: Charset) -> String {
+    use render::{num, sig3};
+    let mut s = String::new();
+    if let (Some(v), Some(tpv), Some(n), Some(b)) = (
+        r.volts_per_turn,
+        r.turns_per_volt,
+        r.powered_turns,
+        r.donor_flux_t,
+    ) {
+        s += "Test winding\n";
+        s += &render::pairs(
+            &[
+                ("volts per turn", format!("{} V", num(v, 4))),
+                ("turns per volt", num(tpv, 4)),
+                ("powered winding", format!("about {} turns", num(n, 0))),
+                (
+                    "donor ran at",
+                    format!(
+                        "{} T peak (net area {} mm², sine)",
+                        num(b, 3),
+                        num(r.area_net_mm2, 1)
+                    ),
+                ),
+            ],
+            cs,
+        );
+    }
+    if !r.points.is_empty() {
+        if !s.is_empty() {
+            s += "\n";
+        }
+        s += &format!(
+            "Magnetisation sweep ({} turns, {} Hz)\n",
+            r.sweep_turns.unwrap_or(0),
+            num(r.frequency_hz, 1)
+        );
+        let mut rows = vec![vec![
+            "volts".to_string(),
+            "amps".into(),
+            "B peak T".into(),
+            "H peak A/m (approx.)".into(),
+        ]];
+        for p in &r.points {
+            rows.push(vec![
+                num(p.volts, 2),
+                sig3(p.amps),
+                num(p.flux_t, 3),
+                num(p.field_a_per_m, 0),
+            ]);
+        }
+        s += &render::table(rows, 0, cs);
+        let opt = |v: Option<f64>, d: usize, unit: &str| {
+            v.map(|x| format!("{} {unit}", num(x, d)))
+                .unwrap_or_else(|| "not reached".to_string())
+        };
+        s += &render::pairs(
+            &[
+                (
+                    "IEC 61869-2 knee",
+                    format!(
+                        "{} = {}",
+                        opt(r.knee_volts, 2, "V"),
+                        opt(r.knee_flux_t, 3, "T")
+                    ),
+                ),
+                (
+                    "45° log-log tangent",
+                    format!(
+                        "{} = {}",
+                        opt(r.tangent_volts, 2, "V"),
+                        opt(r.tangent_flux_t, 3, "T")
+                    ),
+                ),
+                (
+                    "recommended maximum",
+                    format!(
+                        "{} (0.9 × the IEC knee flux)",
+                        opt(r.recommended_flux_t, 3, "T")
+                    ),
+                ),
+            ],
+            cs,
+        );
+    }
+    if !r.warnings.is_empty() {
+        s += "\nWarnings\n";
+        for w in &r.warnings {
+            s += &format!("  ! {w}\n");
+        }
+    }
+    s += "\nCaution: power probe tests only through a fuse and a current limit (series lamp or isolating variable\ntransformer); remove a microwave-oven donor's high-voltage winding first; keep one hand away.\n";
+    s
+}
+
+/// Writes a whole file (charts, cards); failures are exit 1.
+pub fn write_file(path: &Path, bytes: &[u8]) -> Result<()> {
+    std::fs::write(path, bytes)
+        .map_err(|e| Error::io(path.display().to_string(), "cannot write", &e))
 }
 
 #[allow(clippy::too_many_arguments)]

@@ -341,14 +341,35 @@ impl ExcitationCurve {
         // g(V) = ln I(1.1V) − ln I(V) − ln 1.5, scanned for its first rise through zero.
         let g = |v: f64| self.curve.value((1.1 * v).ln()) - self.curve.value(v.ln()) - target;
         let iec = first_root(g, lo, hi / 1.1);
-        // 45°: d ln I / d ln V = 1, i.e. d ln V / d ln I = 1, first crossing from below.
+        // 45°: d ln I / d ln V = 1, i.e. d ln V / d ln I = 1. Meter noise at the low end can make the
+        // slope wander about 1 there, so the last crossing from below is the knee.
         let s = |v: f64| self.curve.slope(v.ln()) - 1.0;
-        let tangent = first_root(s, lo, hi);
+        let tangent = last_root(s, lo, hi);
         Knees {
             iec_volts: iec,
             tangent_volts: tangent,
         }
     }
+}
+
+/// The last x in [lo, hi] where f rises through zero, found like [`first_root`].
+fn last_root(f: impl Fn(f64) -> f64, lo: f64, hi: f64) -> Option<f64> {
+    let mut found = None;
+    let mut start = lo;
+    while let Some(x) = first_root(&f, start, hi) {
+        found = Some(x);
+        // Continue past this crossing: skip to where f is negative again, if it ever is.
+        let step = (hi / lo).powf(1.0 / 2000.0);
+        let mut y = x * step;
+        while y < hi && f(y) >= 0.0 {
+            y *= step;
+        }
+        if y >= hi {
+            break;
+        }
+        start = y;
+    }
+    found
 }
 
 /// The first x in [lo, hi] where f rises through zero (f(lo side) < 0 ≤ f(hi side)), by a log-spaced

@@ -68,6 +68,8 @@ pub struct Drive {
     pub no_load_amps: Option<f64>,
     /// Actual flux over the donor's measured flux, when a test winding is known.
     pub flux_vs_donor: Option<f64>,
+    /// How the drive compares with the donor's own sine, when a kept output sets the turns.
+    pub kept_output_note: Option<String>,
 }
 
 /// A tap on an output.
@@ -316,7 +318,7 @@ pub fn plan(job: &Job) -> Plan {
     let steel_flux = job.steel.design_flux_t;
     let recommended = sweep_rep.as_ref().and_then(|r| r.recommended_flux_t);
     if sweep.is_some() && recommended.is_none() {
-        warnings.push("the sweep does not reach the knee (10 % more volts never gave 50 % more current): its flux cap is not known; sweep higher".to_string());
+        warnings.push("the sweep does not reach the IEC knee (10 % more volts never gave 50 % more current inside it): the flux cap is not known; sweep higher".to_string());
     }
     let (design_flux, source) = match (job.flux_density_t, recommended) {
         (Some(b), Some(rec)) if b > rec => {
@@ -634,29 +636,34 @@ pub fn plan(job: &Job) -> Plan {
             ));
         }
     }
+    let mut kept_note = None;
     if let (Some(k), Some((_, r))) = (kept_idx.filter(|&k| k != p_idx), &test) {
-        if !matches!(wf, Waveform::Sine) {
-            let ratio = flux / r.donor_flux_t;
-            let note = format!(
-                "kept output \"{}\": a {} drive at the donor's RMS volts per turn runs the core at 4.443/4 = 1.11 × the sine flux it was built for; here {:.2} T against the donor's {:.2} T (×{ratio:.2})",
+        let ratio = flux / r.donor_flux_t;
+        let note = match wf {
+            Waveform::Sine => format!(
+                "kept output \"{}\": sine drive at {:.4} V per turn; the core runs at {flux:.3} T against the donor's {:.3} T (×{ratio:.3})",
+                job.windings[k].name, v_turn, r.donor_flux_t
+            ),
+            _ => format!(
+                "kept output \"{}\": a square drive at the donor's RMS volts per turn runs the core at 4.443/4 = 1.11 × the sine flux it was built for{}; here {flux:.3} T against the donor's {:.3} T (×{ratio:.3})",
                 job.windings[k].name,
-                wf.name(),
-                flux,
+                match wf {
+                    Waveform::QuasiSquare { duty } => format!(", times √δ = {:.3} for quasi-square at duty {duty}", duty.sqrt()),
+                    _ => String::new(),
+                },
                 r.donor_flux_t
-            );
-            if sweep_rep
-                .as_ref()
-                .and_then(|s| s.recommended_flux_t)
-                .is_none()
-                && ratio > 1.0 + 1e-9
-            {
-                warnings.push(format!(
-                    "{note}; no sweep is known to show the knee margin: run one"
-                ));
-            } else if sweep_rep.is_none() {
-                warnings.push(note);
-            }
+            ),
+        };
+        let knee_known = sweep_rep
+            .as_ref()
+            .and_then(|s| s.recommended_flux_t)
+            .is_some();
+        if !knee_known && ratio > 1.0 + 1e-9 {
+            warnings.push(format!(
+                "the core runs at {ratio:.2} × the flux the donor was built for and no sweep shows the knee margin: sweep the kept winding before relying on it"
+            ));
         }
+        kept_note = Some(note);
     }
     if lay.copper_fill > HAND_FILL_LIMIT {
         warnings.push(format!(
@@ -780,6 +787,7 @@ pub fn plan(job: &Job) -> Plan {
             primary_amps: st.primary_amps,
             no_load_amps: no_load,
             flux_vs_donor,
+            kept_output_note: kept_note,
         },
         windings,
         window: WindowPlan {

@@ -407,6 +407,153 @@ pub fn no_load_amps(sweep: &Sweep, freq_hz: f64, area_net_mm2: f64, b_t: f64, tu
     i_sweep * sweep.turns as f64 / turns as f64
 }
 
+/// Everything `ironwind probe` reports.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ProbeRun {
+    /// Frequency, Hz.
+    pub frequency_hz: f64,
+    /// Net iron area used, mm².
+    pub area_net_mm2: f64,
+    /// Magnetic path length used for the field, mm.
+    pub path_length_mm: f64,
+    /// Whether the path length was estimated from scrapless proportions (no window given).
+    pub path_estimated: bool,
+    /// Measured volts per turn (test winding).
+    pub volts_per_turn: Option<f64>,
+    /// Turns per volt.
+    pub turns_per_volt: Option<f64>,
+    /// Estimated turns of the powered winding.
+    pub powered_turns: Option<f64>,
+    /// Flux the donor ran at, T.
+    pub donor_flux_t: Option<f64>,
+    /// Turns of the swept winding.
+    pub sweep_turns: Option<u32>,
+    /// Sweep points with flux and field.
+    pub points: Vec<SweepRow>,
+    /// IEC knee voltage, V.
+    pub knee_volts: Option<f64>,
+    /// IEC knee flux, T.
+    pub knee_flux_t: Option<f64>,
+    /// 45° tangent voltage, V.
+    pub tangent_volts: Option<f64>,
+    /// 45° tangent flux, T.
+    pub tangent_flux_t: Option<f64>,
+    /// Recommended maximum flux, T.
+    pub recommended_flux_t: Option<f64>,
+    /// Warnings and notes.
+    pub warnings: Vec<String>,
+}
+
+/// Runs the analyses a person asked for.
+pub fn probe_run(
+    test: Option<&TestWinding>,
+    sweep: Option<(&ExcitationCurve, u32)>,
+    freq_hz: f64,
+    area_net_mm2: f64,
+    path_mm: f64,
+    path_estimated: bool,
+) -> ProbeRun {
+    let t = test.map(|t| test_report(t, freq_hz, area_net_mm2));
+    let s = sweep.map(|(c, n)| sweep_report(c, n, freq_hz, area_net_mm2, path_mm));
+    let mut warnings = Vec::new();
+    if let Some(r) = &t {
+        warnings.extend(donor_flux_notes(r.donor_flux_t));
+    }
+    if let Some(r) = &s {
+        if r.knee_volts.is_none() {
+            warnings.push("the sweep does not reach the IEC knee (10 % more volts never gave 50 % more current inside it): sweep higher".to_string());
+        }
+        if r.tangent_volts.is_none() {
+            warnings.push(
+                "the log-log slope never crosses 45° inside the sweep: no tangent point"
+                    .to_string(),
+            );
+        }
+        if let (Some(rec), Some(tr)) = (r.recommended_flux_t, &t) {
+            if tr.donor_flux_t > rec {
+                warnings.push(format!(
+                    "the donor ran at {:.2} T, above the sweep's recommended {:.2} T",
+                    tr.donor_flux_t, rec
+                ));
+            }
+        }
+    }
+    if path_estimated && s.is_some() {
+        warnings.push("no --window given: the path length for the field strength assumes scrapless E-I proportions".to_string());
+    }
+    ProbeRun {
+        frequency_hz: freq_hz,
+        area_net_mm2,
+        path_length_mm: path_mm,
+        path_estimated,
+        volts_per_turn: t.as_ref().map(|r| r.volts_per_turn),
+        turns_per_volt: t.as_ref().map(|r| r.turns_per_volt),
+        powered_turns: t.as_ref().map(|r| r.powered_turns),
+        donor_flux_t: t.as_ref().map(|r| r.donor_flux_t),
+        sweep_turns: sweep.map(|(_, n)| n),
+        points: s.as_ref().map(|r| r.points.clone()).unwrap_or_default(),
+        knee_volts: s.as_ref().and_then(|r| r.knee_volts),
+        knee_flux_t: s.as_ref().and_then(|r| r.knee_flux_t),
+        tangent_volts: s.as_ref().and_then(|r| r.tangent_volts),
+        tangent_flux_t: s.as_ref().and_then(|r| r.tangent_flux_t),
+        recommended_flux_t: s.as_ref().and_then(|r| r.recommended_flux_t),
+        warnings,
+    }
+}
+
+/// The sweep as a log-log SVG chart: the curve, both knees and the recommended operating point.
+pub fn sweep_plot(run: &ProbeRun) -> String {
+    use crate::render::svg::{chart, Chart, Marker, Scale, Series};
+    let vpt = run
+        .points
+        .first()
+        .map(|p| p.volts / p.flux_t)
+        .unwrap_or(1.0);
+    let mut markers = Vec::new();
+    if let (Some(v), Some(b)) = (run.knee_volts, run.knee_flux_t) {
+        markers.push(Marker {
+            x: v,
+            label: format!("IEC knee {v:.1} V, {b:.2} T"),
+            dash: "8 4",
+        });
+    }
+    if let (Some(v), Some(b)) = (run.tangent_volts, run.tangent_flux_t) {
+        markers.push(Marker {
+            x: v,
+            label: format!("45° tangent {v:.1} V, {b:.2} T"),
+            dash: "2 3",
+        });
+    }
+    if let Some(b) = run.recommended_flux_t {
+        markers.push(Marker {
+            x: b * vpt,
+            label: format!("recommended max {b:.2} T"),
+            dash: "",
+        });
+    }
+    chart(&Chart {
+        title: format!(
+            "Magnetisation sweep, {} turns, {} Hz",
+            run.sweep_turns.unwrap_or(0),
+            run.frequency_hz
+        ),
+        x_label: "winding voltage (V RMS), log scale".into(),
+        y_label: "exciting current (A RMS), log scale".into(),
+        y2_label: None,
+        x_scale: Scale::Log,
+        y_scale: Scale::Log,
+        series: vec![Series {
+            label: "measured".into(),
+            points: run.points.iter().map(|p| (p.volts, p.amps)).collect(),
+            dots: true,
+            dash: "",
+            colour: "#1f4e79",
+            right_axis: false,
+        }],
+        markers,
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

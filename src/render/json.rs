@@ -106,6 +106,8 @@ pub struct DriveJson<'a> {
     pub no_load_amps: Option<f64>,
     /// Flux over the donor's flux (null without a test winding).
     pub flux_vs_donor: Option<f64>,
+    /// The kept-output comparison of drive and donor (null otherwise).
+    pub kept_output_note: Option<&'a str>,
 }
 
 /// Conductor keys.
@@ -357,6 +359,7 @@ pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
             primary_amps: plan.drive.primary_amps,
             no_load_amps: plan.drive.no_load_amps,
             flux_vs_donor: plan.drive.flux_vs_donor,
+            kept_output_note: plan.drive.kept_output_note.as_deref(),
         },
         windings: plan
             .windings

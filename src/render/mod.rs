@@ -23,7 +23,8 @@ pub enum Charset {
     Ascii,
 }
 
-/// Builds a table from rows (the first is the header) with numbers right-aligned from `right_from`.
+/// Builds a table from rows (the first is the header) with numbers right-aligned from `right_from`;
+/// the text ends with a newline.
 pub fn table(rows: Vec<Vec<String>>, right_from: usize, charset: Charset) -> String {
     let mut b = Builder::default();
     for r in rows {
@@ -35,10 +36,10 @@ pub fn table(rows: Vec<Vec<String>>, right_from: usize, charset: Charset) -> Str
         Charset::Ascii => t.with(Style::ascii()),
     };
     t.modify(Columns::new(right_from..), Alignment::right());
-    t.to_string()
+    t.to_string() + "\n"
 }
 
-/// A two-column table of labels and values, without a header row.
+/// A two-column table of labels and values, without a header row; the text ends with a newline.
 pub fn pairs(rows: &[(&str, String)], charset: Charset) -> String {
     let mut b = Builder::default();
     for (k, v) in rows {
@@ -49,7 +50,7 @@ pub fn pairs(rows: &[(&str, String)], charset: Charset) -> String {
         Charset::Unicode => t.with(Style::rounded().remove_horizontals()),
         Charset::Ascii => t.with(Style::ascii().remove_horizontals()),
     };
-    t.to_string()
+    t.to_string() + "\n"
 }
 
 /// A number with `d` decimals; NaN and infinities as words (they should never reach a person).

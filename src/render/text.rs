@@ -130,6 +130,9 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
     }
     s += "\nDrive\n";
     s += &pairs(&drive, cs);
+    if let Some(n) = &d.kept_output_note {
+        s += &format!("{n}\n");
+    }
     if let Some(p) = &plan.probe {
         let mut rows = Vec::new();
         if let Some(v) = p.volts_per_turn {
@@ -195,9 +198,9 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
     }
     s += &table(rows, 2, cs);
     if plan.core.shape.name() == "ui" {
-        s += "\n(U-I core: each winding is split over the two legs; turns per layer, layers and build are per half-coil.)";
+        s += "(U-I core: each winding is split over the two legs; turns per layer, layers and build are per half-coil.)\n";
     }
-    s += "\n\nElectrical\n";
+    s += "\nElectrical\n";
     let mut rows = vec![vec![
         "winding".to_string(),
         "mean turn mm".into(),
@@ -225,9 +228,9 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
             .iter()
             .map(|t| format!("{} V at turn {}", num(t.volts, 2), t.turn))
             .collect();
-        s += &format!("\ntaps on \"{}\": {}", w.name, list.join(", "));
+        s += &format!("taps on \"{}\": {}\n", w.name, list.join(", "));
     }
-    s += "\n\nWindow, losses and heating\n";
+    s += "\nWindow, losses and heating\n";
     let win = &plan.window;
     let l = &plan.losses;
     let t = &plan.thermal;
@@ -276,7 +279,7 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
 pub fn warnings_and_verdict(plan: &Plan, cs: Charset) -> String {
     let mut s = String::new();
     if !plan.warnings.is_empty() {
-        s += "\n\nWarnings\n";
+        s += "\nWarnings\n";
         for w in &plan.warnings {
             s += &format!("  ! {w}\n");
         }
@@ -300,7 +303,7 @@ pub fn warnings_and_verdict(plan: &Plan, cs: Charset) -> String {
         ]);
     }
     s += &table(rows, 99, cs);
-    s += "\n\nCautions\n";
+    s += "\nCautions\n";
     for c in &plan.cautions {
         s += &format!("  * {c}\n");
     }

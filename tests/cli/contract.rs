@@ -59,6 +59,7 @@ struct Drive {
     primary_amps: f64,
     no_load_amps: Option<f64>,
     flux_vs_donor: Option<f64>,
+    kept_output_note: Option<String>,
 }
 
 #[derive(Deserialize)]

@@ -6,4 +6,5 @@ mod core_cmd;
 mod demo;
 mod input_errors;
 mod plan_cmd;
+mod probe_cmd;
 mod wire_cmd;
