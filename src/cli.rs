@@ -55,6 +55,24 @@ enum Command {
         #[arg(long, value_enum, default_value_t = PlanFormat::Text)]
         format: PlanFormat,
     },
+    /// Print the bench card of a job: winding order, turns, layer checkpoints, cut list, checks
+    #[command(
+        allow_negative_numbers = true,
+        after_help = "Examples:\n  ironwind card examples/garage_charger.toml\n  ironwind card job.toml --format html --output card.html\n  ironwind card job.toml --format svg --output window.svg"
+    )]
+    Card {
+        /// The job file (TOML)
+        job: PathBuf,
+        /// Output format
+        #[arg(long, value_enum, default_value_t = CardFormat::Text)]
+        format: CardFormat,
+        /// Write to this file instead of stdout
+        #[arg(long, short)]
+        output: Option<PathBuf>,
+        /// Spare allowance on the buy list, per cent (0 to 100)
+        #[arg(long, default_value_t = 10.0)]
+        spare: f64,
+    },
     /// Geometry of a measured core, with the rule-of-thumb rating
     #[command(
         allow_negative_numbers = true,
@@ -157,9 +175,12 @@ enum Command {
     /// Plan the bundled example job end to end (no files needed)
     #[command(after_help = "Example:\n  ironwind demo\n  ironwind demo --format json")]
     Demo {
-        /// Output format
+        /// Output format of the plan
         #[arg(long, value_enum, default_value_t = PlanFormat::Text)]
         format: PlanFormat,
+        /// Show the demo's bench card (text) instead of the plan
+        #[arg(long)]
+        card: bool,
     },
 }
 
@@ -168,6 +189,14 @@ enum PlanFormat {
     Text,
     Json,
     Csv,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum CardFormat {
+    Text,
+    Markdown,
+    Html,
+    Svg,
 }
 
 #[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
@@ -247,11 +276,57 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             check_windable(&p, &origin)?;
             write_plan(out, &p, format, cs)?;
         }
-        Command::Demo { format } => {
+        Command::Card {
+            job,
+            format,
+            output,
+            spare,
+        } => {
+            if !(spare.is_finite() && (0.0..=100.0).contains(&spare)) {
+                return Err(Error::bad_value(
+                    "command line",
+                    "--spare",
+                    spare,
+                    "must be ≥ 0 % and ≤ 100 %",
+                ));
+            }
+            let (job, origin) = load_job(&job)?;
+            let p = plan(&job);
+            check_windable(&p, &origin)?;
+            let opts = render::card::CardOptions {
+                spare: spare / 100.0,
+                ascii: cli.ascii,
+                color: output.is_none()
+                    && stdout_is_terminal()
+                    && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()),
+            };
+            let text = match format {
+                CardFormat::Text => render::card::text_card(&p, &opts),
+                CardFormat::Markdown => render::card::markdown_card(&p, &opts),
+                CardFormat::Html => render::card::html_card(&p, &opts),
+                CardFormat::Svg => render::card::svg_card(&p),
+            };
+            match output {
+                Some(path) => write_file(&path, text.as_bytes())?,
+                None => out.write_all(text.as_bytes()).map_err(out_err)?,
+            }
+        }
+        Command::Demo { format, card } => {
             let job = parse_job(DEMO_JOB, "demo job", &|_| {
                 Err(Error::Failed("the demo has no sweep".into()))
             })?;
             let p = plan(&job);
+            if card {
+                let opts = render::card::CardOptions {
+                    ascii: cli.ascii,
+                    color: stdout_is_terminal()
+                        && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()),
+                    ..Default::default()
+                };
+                out.write_all(render::card::text_card(&p, &opts).as_bytes())
+                    .map_err(out_err)?;
+                return Ok(0);
+            }
             if format == PlanFormat::Text {
                 writeln!(
                     out,

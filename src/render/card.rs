@@ -1,1 +1,938 @@
-//! The bench card (filled in by the card issue).
+//! The bench card: what a person works from with the core in one hand, in text, Markdown, HTML and
+//! SVG (the cross-section of one window, to scale).
+//!
+//! Everything on it comes from the plan: checkpoints are the running turn count at the end of each
+//! layer, the cut length is turns × mean turn + two leads, the 20 °C resistance is the hot one over the
+//! IEC 60028 temperature factor, and the buy list totals each wire size with a spare allowance.
+
+use super::json::{buy_list, BuyRow};
+use super::svg::esc;
+use super::{num, sig3};
+use crate::geometry::Shape;
+use crate::job::Role;
+use crate::plan::{Plan, WindingPlan};
+use crate::wire::Conductor;
+use std::fmt::Write as _;
+
+/// Card options.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct CardOptions {
+    /// Spare allowance on the buy list, fraction (0.10 = 10 %).
+    pub spare: f64,
+    /// Plain ASCII text.
+    pub ascii: bool,
+    /// Bold headings with ANSI escapes (text on a terminal only).
+    pub color: bool,
+}
+
+impl Default for CardOptions {
+    fn default() -> Self {
+        CardOptions {
+            spare: 0.10,
+            ascii: false,
+            color: false,
+        }
+    }
+}
+
+const WIDTH: usize = 80;
+
+/// Wraps `text` to `width` columns with `indent` on continuation lines.
+pub fn wrap(text: &str, width: usize, first: &str, indent: &str) -> String {
+    let mut out = String::new();
+    let mut line = first.to_string();
+    let mut empty = true;
+    for word in text.split_whitespace() {
+        let need = line.chars().count() + if empty { 0 } else { 1 } + word.chars().count();
+        if !empty && need > width {
+            out += line.trim_end();
+            out += "\n";
+            line = indent.to_string();
+            empty = true;
+        }
+        if !empty {
+            line.push(' ');
+        }
+        line += word;
+        empty = false;
+    }
+    out += line.trim_end();
+    out += "\n";
+    out
+}
+
+fn role_word(w: &WindingPlan) -> &'static str {
+    match (w.role, w.kept) {
+        (Role::Primary, false) => "PRIMARY",
+        (Role::Primary, true) => "PRIMARY (kept donor winding)",
+        (Role::Secondary, false) => "OUTPUT",
+        (Role::Secondary, true) => "OUTPUT (kept donor winding)",
+    }
+}
+
+fn wire_text(w: &WindingPlan) -> String {
+    let c = &w.wire.conductor;
+    if w.kept {
+        return format!(
+            "the donor's own (taken as {} for its resistance and build)",
+            c.describe()
+        );
+    }
+    let base = match c {
+        Conductor::Round(r) => format!("{} ({}, {})", c.describe(), r.system.name(), w.grade_label),
+        Conductor::Strip { insulation_mm, .. } => {
+            format!("{} (insulated {} mm)", c.describe(), num(*insulation_mm, 2))
+        }
+    };
+    let strands = if w.wire.strands == 1 {
+        "1 strand".to_string()
+    } else {
+        format!("{} strands in hand", w.wire.strands)
+    };
+    format!("{base}, {strands}")
+}
+
+fn core_line(p: &Plan) -> String {
+    let c = &p.core;
+    format!(
+        "Core {}: tongue {} x stack {} mm, window {} x {} mm, Ae net {} cm2, steel {}",
+        if c.shape == Shape::Ei { "E-I" } else { "U-I" },
+        num(c.tongue_mm, 1),
+        num(c.stack_mm, 1),
+        num(c.window_width_mm, 1),
+        num(c.window_height_mm, 1),
+        num(p.geometry.area_net_mm2 / 100.0, 2),
+        p.steel.name
+    )
+}
+
+fn drive_line(p: &Plan) -> String {
+    let d = &p.drive;
+    format!(
+        "{} Hz {} | {} T peak | {} V per turn | {} turns per volt",
+        num(d.frequency_hz, 0),
+        d.waveform.name(),
+        num(d.flux_density_t, 3),
+        num(d.volts_per_turn, 4),
+        num(1.0 / d.volts_per_turn, 3)
+    )
+}
+
+fn volts_amps(p: &Plan, w: &WindingPlan) -> String {
+    let unit = if w.role == Role::Primary
+        && !matches!(p.drive.waveform, crate::magnetics::Waveform::Sine)
+    {
+        "V amplitude"
+    } else {
+        "V RMS"
+    };
+    format!("{} {unit}, {} A", num(w.volts, 2), sig3(w.amps))
+}
+
+fn half_coil_note(p: &Plan, w: &WindingPlan) -> Option<String> {
+    (p.core.shape == Shape::Ui).then(|| {
+        format!(
+            "Two half-coils in series, fluxes adding: {} turns on leg 1, {} on leg 2. Layers and checkpoints are per leg (leg 2 ends at {}).",
+            w.coil.coil_turns,
+            w.turns - w.coil.coil_turns,
+            w.turns - w.coil.coil_turns
+        )
+    })
+}
+
+fn insulation_note(p: &Plan, last: bool) -> String {
+    let s = &p.settings;
+    format!(
+        "Insulation: {} mm between layers, {} after.",
+        num(s.interlayer_mm, 2),
+        if last {
+            format!("{} mm outer wrap", num(s.outer_mm, 2))
+        } else {
+            format!("{} mm", num(s.between_windings_mm, 2))
+        }
+    )
+}
+
+fn lead_note(k: usize) -> String {
+    format!(
+        "Leads: start S{n} (mark it before the first turn), finish F{n}; same winding direction as the others.",
+        n = k + 1
+    )
+}
+
+/// The bench checks, as lines of text.
+fn bench_lines(p: &Plan) -> Vec<String> {
+    let mut v = Vec::new();
+    for w in &p.windings {
+        v.push(format!(
+            "\"{}\": meter should read about {} ohm at 20 C once wound",
+            w.name,
+            sig3(w.resistance_20c_ohm)
+        ));
+    }
+    for w in p.windings.iter().filter(|w| w.role == Role::Secondary) {
+        v.push(format!(
+            "\"{}\": about {} V RMS with no load at first power-up",
+            w.name,
+            num(w.volts_no_load, 1)
+        ));
+    }
+    if let Some(i0) = p.drive.no_load_amps {
+        v.push(format!(
+            "idle (no-load) primary current: about {} A RMS (from the sweep)",
+            sig3(i0)
+        ));
+    }
+    v
+}
+
+fn power_up_lines() -> Vec<&'static str> {
+    vec![
+        "First power-up: through a series lamp (or a current-limited supply), no load, fuse in place.",
+        "Lamp barely glows: measure the outputs. Lamp bright: stop, look for a short or a reversed half.",
+        "Then the rated voltage through the fuse, still no load; then the load. Feel for heat every few minutes.",
+    ]
+}
+
+fn verdict_line(p: &Plan) -> String {
+    if p.verdict.ok {
+        format!(
+            "VERDICT: every check passes (rise {} C, fill {}, efficiency {} %)",
+            num(p.thermal.rise_c, 0),
+            num(p.window.copper_fill, 2),
+            num(p.losses.efficiency * 100.0, 0)
+        )
+    } else {
+        let failed: Vec<&str> = p
+            .verdict
+            .checks
+            .iter()
+            .filter(|c| !c.ok)
+            .map(|c| c.name.as_str())
+            .collect();
+        format!("VERDICT: DOES NOT PASS - {}", failed.join(", "))
+    }
+}
+
+/// Two aligned rows, "layer" and "ends at turn", ten layers to a block.
+fn checkpoint_grid(w: &WindingPlan) -> String {
+    let mut s = String::new();
+    let cps = &w.coil.checkpoints;
+    for (b, chunk) in cps.chunks(10).enumerate() {
+        let cell = chunk
+            .iter()
+            .map(|t| t.to_string().len())
+            .max()
+            .unwrap_or(1)
+            .max(3)
+            + 2;
+        let mut l1 = String::from("    layer        ");
+        let mut l2 = String::from("    ends at turn ");
+        for (i, t) in chunk.iter().enumerate() {
+            l1 += &format!("{:>cell$}", b * 10 + i + 1);
+            l2 += &format!("{:>cell$}", t);
+        }
+        s += l1.trim_end();
+        s += "\n";
+        s += l2.trim_end();
+        s += "\n";
+    }
+    s
+}
+
+fn tap_text(w: &WindingPlan) -> Option<String> {
+    (!w.taps.is_empty()).then(|| {
+        w.taps
+            .iter()
+            .map(|t| format!("{} V: bring out a loop at turn {}", num(t.volts, 1), t.turn))
+            .collect::<Vec<_>>()
+            .join("; ")
+    })
+}
+
+/// The text card: at most 80 columns.
+pub fn text_card(p: &Plan, o: &CardOptions) -> String {
+    let bold = |s: &str| {
+        if o.color && !o.ascii {
+            format!("\x1b[1m{s}\x1b[0m")
+        } else {
+            s.to_string()
+        }
+    };
+    let rule = if o.ascii {
+        "=".repeat(WIDTH)
+    } else {
+        "═".repeat(WIDTH)
+    };
+    let thin = if o.ascii {
+        "-".repeat(WIDTH)
+    } else {
+        "─".repeat(WIDTH)
+    };
+    let mut s = String::new();
+    s += &rule;
+    s += "\n";
+    s += &wrap(&format!("WINDING CARD: {}", p.name), WIDTH, "", "  ");
+    s += &wrap(&core_line(p), WIDTH, "", "  ");
+    s += &wrap(&drive_line(p), WIDTH, "", "  ");
+    s += &rule;
+    s += "\n";
+    s += &wrap(
+        "Wind in this order, innermost first, every winding in the SAME direction. Mark each start lead before the first turn.",
+        WIDTH,
+        "",
+        "",
+    );
+    let n = p.windings.len();
+    for (k, w) in p.windings.iter().enumerate() {
+        s += &thin;
+        s += "\n";
+        s += &bold(&format!(
+            "[{}] {} \"{}\"  {}",
+            k + 1,
+            role_word(w),
+            w.name,
+            volts_amps(p, w)
+        ));
+        s += "\n";
+        s += &bold(&format!("    TURNS {}", w.turns));
+        if w.kept {
+            s += "   (counted by the test winding)\n";
+        } else {
+            s += &format!(
+                "   {} per layer x {} layers\n",
+                w.coil.turns_per_layer, w.coil.layers
+            );
+        }
+        s += &wrap(&format!("wire: {}", wire_text(w)), WIDTH, "    ", "      ");
+        if let Some(h) = half_coil_note(p, w) {
+            s += &wrap(&h, WIDTH, "    ", "    ");
+        }
+        if w.kept {
+            s += &wrap(
+                "Kept on the core as it is: do not unwind; check it with the meter below.",
+                WIDTH,
+                "    ",
+                "    ",
+            );
+        } else {
+            s += &checkpoint_grid(w);
+            if let Some(t) = tap_text(w) {
+                s += &wrap(&format!("TAPS: {t}"), WIDTH, "    ", "      ");
+            }
+            s += &wrap(&lead_note(k), WIDTH, "    ", "    ");
+        }
+        s += &wrap(&insulation_note(p, k + 1 == n), WIDTH, "    ", "    ");
+    }
+    s += &thin;
+    s += "\n";
+    s += &bold(&format!(
+        "CUT AND BUY (spare {} %)",
+        num(o.spare * 100.0, 0)
+    ));
+    s += "\n";
+    for w in p.windings.iter().filter(|w| !w.kept) {
+        s += &wrap(
+            &format!(
+                "\"{}\": cut {} m per strand x {} ({} turns x {} mm mean turn + leads), {} g copper",
+                w.name,
+                num(w.cut_length_m, 2),
+                w.wire.strands,
+                w.turns,
+                num(w.coil.mean_turn_mm, 0),
+                num(w.copper_mass_g, 0)
+            ),
+            WIDTH,
+            "  ",
+            "    ",
+        );
+    }
+    for b in buy_list(p, o.spare) {
+        s += &wrap(&buy_text(&b), WIDTH, "  buy: ", "    ");
+    }
+    s += &bold("BENCH CHECKS");
+    s += "\n";
+    for l in bench_lines(p) {
+        s += &wrap(&l, WIDTH, "  ", "    ");
+    }
+    for l in power_up_lines() {
+        s += &wrap(l, WIDTH, "  ", "    ");
+    }
+    s += &thin;
+    s += "\n";
+    s += &bold(&verdict_line(p));
+    s += "\n";
+    for w in &p.warnings {
+        s += &wrap(w, WIDTH, "  ! ", "    ");
+    }
+    s += &bold("CAUTIONS");
+    s += "\n";
+    for c in &p.cautions {
+        s += &wrap(c, WIDTH, "  * ", "    ");
+    }
+    s += &rule;
+    s += "\n";
+    if o.ascii {
+        super::asciify(&s)
+    } else {
+        s
+    }
+}
+
+fn buy_text(b: &BuyRow) -> String {
+    let what = match b.system {
+        "awg" => format!("AWG {}", b.size),
+        "strip" => format!("strip {} mm", b.size),
+        _ => format!("{} mm", b.size),
+    };
+    format!("{what}: {} m, {} g", num(b.length_m, 1), num(b.mass_g, 0))
+}
+
+/// The Markdown card.
+pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "# Winding card: {}\n", p.name);
+    let _ = writeln!(s, "{}  \n{}\n", core_line(p), drive_line(p));
+    let _ = writeln!(s, "Wind in this order, innermost first, every winding in the **same direction**. Mark each start lead before the first turn.\n");
+    let n = p.windings.len();
+    for (k, w) in p.windings.iter().enumerate() {
+        let _ = writeln!(
+            s,
+            "## {}. {} \"{}\": {}\n",
+            k + 1,
+            role_word(w),
+            w.name,
+            volts_amps(p, w)
+        );
+        let _ = writeln!(
+            s,
+            "- **Turns: {}** — {} per layer × {} layers",
+            w.turns, w.coil.turns_per_layer, w.coil.layers
+        );
+        let _ = writeln!(s, "- Wire: {}", wire_text(w));
+        if let Some(h) = half_coil_note(p, w) {
+            let _ = writeln!(s, "- {h}");
+        }
+        if w.kept {
+            let _ = writeln!(s, "- Kept on the core as it is: do not unwind.");
+        } else {
+            let _ = writeln!(s, "- Layer ends at turn:\n");
+            let _ = writeln!(
+                s,
+                "  | layer | {} |",
+                (1..=w.coil.checkpoints.len())
+                    .map(|k| k.to_string())
+                    .collect::<Vec<_>>()
+                    .join(" | ")
+            );
+            let _ = writeln!(s, "  |---|{}", "---:|".repeat(w.coil.checkpoints.len()));
+            let _ = writeln!(
+                s,
+                "  | ends at turn | {} |\n",
+                w.coil
+                    .checkpoints
+                    .iter()
+                    .map(|t| format!("**{t}**"))
+                    .collect::<Vec<_>>()
+                    .join(" | ")
+            );
+            if let Some(t) = tap_text(w) {
+                let _ = writeln!(s, "- **Taps:** {t}");
+            }
+            let _ = writeln!(s, "- {}", lead_note(k));
+        }
+        let _ = writeln!(s, "- {}\n", insulation_note(p, k + 1 == n));
+    }
+    let _ = writeln!(s, "## Cut and buy (spare {} %)\n", num(o.spare * 100.0, 0));
+    let _ = writeln!(
+        s,
+        "| winding | cut per strand (m) | strands | copper (g) |\n|---|---:|---:|---:|"
+    );
+    for w in p.windings.iter().filter(|w| !w.kept) {
+        let _ = writeln!(
+            s,
+            "| {} | {} | {} | {} |",
+            w.name,
+            num(w.cut_length_m, 2),
+            w.wire.strands,
+            num(w.copper_mass_g, 0)
+        );
+    }
+    let _ = writeln!(s);
+    for b in buy_list(p, o.spare) {
+        let _ = writeln!(s, "- Buy {}", buy_text(&b));
+    }
+    let _ = writeln!(s, "\n## Bench checks\n");
+    for l in bench_lines(p) {
+        let _ = writeln!(s, "- {l}");
+    }
+    for l in power_up_lines() {
+        let _ = writeln!(s, "- {l}");
+    }
+    let _ = writeln!(s, "\n**{}**\n", verdict_line(p));
+    for w in &p.warnings {
+        let _ = writeln!(s, "> {w}\n");
+    }
+    let _ = writeln!(s, "## Cautions\n");
+    for c in &p.cautions {
+        let _ = writeln!(s, "- {c}");
+    }
+    s
+}
+
+/// Hatching patterns, one per winding in turn (distinguishable in greyscale).
+const PATTERNS: &[(&str, &str)] = &[
+    (
+        "hatch-a",
+        r##"<pattern id="hatch-a" width="1.4" height="1.4" patternUnits="userSpaceOnUse" patternTransform="rotate(45)"><rect width="1.4" height="1.4" fill="#e8eef6"/><line x1="0" y1="0" x2="0" y2="1.4" stroke="#1f4e79" stroke-width="0.45"/></pattern>"##,
+    ),
+    (
+        "hatch-b",
+        r##"<pattern id="hatch-b" width="1.6" height="1.6" patternUnits="userSpaceOnUse"><rect width="1.6" height="1.6" fill="#f6efe4"/><path d="M0 0L1.6 1.6M1.6 0L0 1.6" stroke="#7a4a12" stroke-width="0.22"/></pattern>"##,
+    ),
+    (
+        "hatch-c",
+        r##"<pattern id="hatch-c" width="1.2" height="1.2" patternUnits="userSpaceOnUse"><rect width="1.2" height="1.2" fill="#eef5ea"/><circle cx="0.6" cy="0.6" r="0.3" fill="#2f5d1f"/></pattern>"##,
+    ),
+    (
+        "hatch-d",
+        r##"<pattern id="hatch-d" width="1.6" height="1.6" patternUnits="userSpaceOnUse" patternTransform="rotate(-45)"><rect width="1.6" height="1.6" fill="#f3eaf3"/><line x1="0" y1="0" x2="0" y2="1.6" stroke="#5b2a5b" stroke-width="0.35"/><line x1="0.8" y1="0" x2="0.8" y2="1.6" stroke="#5b2a5b" stroke-width="0.12"/></pattern>"##,
+    ),
+];
+
+/// The cross-section of one window to scale, as an SVG element (no XML declaration).
+pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
+    let c = &p.core;
+    let s = &p.settings;
+    let avail_w = match c.shape {
+        Shape::Ei => c.window_width_mm,
+        Shape::Ui => c.window_width_mm / 2.0,
+    };
+    let h = c.window_height_mm;
+    // Drawing in mm with a margin for the tongue strip, labels and the scale bar.
+    let tongue_strip = 6.0f64.min(c.tongue_mm / 2.0);
+    let margin = 4.0;
+    let label_w = 30.0;
+    let vb_w = tongue_strip + avail_w + label_w + 2.0 * margin;
+    let scale_h = 10.0;
+    let vb_h = h + 2.0 * margin + scale_h + 6.0;
+    let px_h = width_px * vb_h / vb_w;
+    let x0 = margin + tongue_strip; // tongue face
+    let y0 = margin;
+    let mut o = String::new();
+    let _ = write!(
+        o,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" class="xsec" width="{width_px:.0}" height="{px_h:.0}" viewBox="0 0 {vb_w:.2} {vb_h:.2}" font-family="sans-serif" font-size="2.6">"#
+    );
+    o += "<title>Cross-section of one window, to scale</title><defs>";
+    for (_, pat) in PATTERNS {
+        o += pat;
+    }
+    o += r##"<pattern id="steel" width="1.5" height="1.5" patternUnits="userSpaceOnUse"><rect width="1.5" height="1.5" fill="#9a9a9a"/><line x1="0" y1="1.5" x2="1.5" y2="0" stroke="#666" stroke-width="0.2"/></pattern>"##;
+    o += "</defs>";
+    // Steel: tongue strip on the left, yokes above and below, outer leg on the right.
+    let _ = write!(
+        o,
+        r#"<rect x="{:.2}" y="{:.2}" width="{tongue_strip:.2}" height="{h:.2}" fill="url(#steel)"/>"#,
+        margin, y0
+    );
+    let _ = write!(
+        o,
+        r#"<text x="{:.2}" y="{:.2}" transform="rotate(-90 {:.2} {:.2})" text-anchor="middle" font-size="2.4">tongue</text>"#,
+        margin + tongue_strip / 2.0 + 0.8,
+        y0 + h / 2.0,
+        margin + tongue_strip / 2.0 + 0.8,
+        y0 + h / 2.0
+    );
+    let _ = write!(
+        o,
+        r##"<rect class="window" x="{x0:.2}" y="{y0:.2}" width="{avail_w:.2}" height="{h:.2}" fill="white" stroke="#000" stroke-width="0.4"/>"##
+    );
+    // Bobbin: tube along the tongue and flanges at both ends.
+    let wall = s.bobbin_wall_mm;
+    let coil_top = y0 + wall + s.margin_mm;
+    let traverse = p.window.traverse_mm.max(0.0);
+    let build_total = p.window.build_mm.min(avail_w);
+    let _ = write!(
+        o,
+        r##"<rect class="bobbin" x="{x0:.2}" y="{y0:.2}" width="{wall:.2}" height="{h:.2}" fill="#c8b38a" stroke="#5a4a2a" stroke-width="0.2"/>"##
+    );
+    for fy in [y0, y0 + h - wall] {
+        let _ = write!(
+            o,
+            r##"<rect class="bobbin" x="{x0:.2}" y="{fy:.2}" width="{build_total:.2}" height="{wall:.2}" fill="#c8b38a" stroke="#5a4a2a" stroke-width="0.2"/>"##
+        );
+    }
+    // Windings.
+    let mut x = x0 + wall;
+    let nw = p.windings.len();
+    for (k, w) in p.windings.iter().enumerate() {
+        if k > 0 {
+            let gap = s.between_windings_mm;
+            let _ = write!(
+                o,
+                r##"<rect class="insulation" x="{x:.2}" y="{coil_top:.2}" width="{gap:.2}" height="{traverse:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
+            );
+            x += gap;
+        }
+        let b = w.coil.build_mm.max(0.0);
+        let (pat, _) = PATTERNS[k % PATTERNS.len()];
+        let _ = write!(
+            o,
+            r##"<rect class="winding" x="{x:.2}" y="{coil_top:.2}" width="{b:.2}" height="{traverse:.2}" fill="url(#{pat})" stroke="#000" stroke-width="0.3"/>"##
+        );
+        // Layer lines.
+        let layers = w.coil.layers.max(1);
+        if layers > 1 && layers < 200 {
+            let lb = w.wire.conductor.build_mm();
+            for l in 1..layers {
+                let lx = x + l as f64 * (lb + s.interlayer_mm) - s.interlayer_mm / 2.0;
+                if lx < x + b {
+                    let _ = write!(
+                        o,
+                        r##"<line x1="{lx:.2}" y1="{coil_top:.2}" x2="{lx:.2}" y2="{:.2}" stroke="#000" stroke-width="0.12"/>"##,
+                        coil_top + traverse
+                    );
+                }
+            }
+        }
+        // Label: number in a white box at the middle.
+        let cx = x + b / 2.0;
+        let cy = coil_top + 4.0 + (k as f64 * 5.0) % (traverse - 6.0).max(1.0);
+        let _ = write!(
+            o,
+            r##"<rect x="{:.2}" y="{:.2}" width="4" height="3.6" fill="white" stroke="#000" stroke-width="0.15"/><text x="{cx:.2}" y="{:.2}" text-anchor="middle" font-weight="bold">{}</text>"##,
+            cx - 2.0,
+            cy - 2.8,
+            cy,
+            k + 1
+        );
+        x += b;
+        let _ = nw;
+    }
+    // Outer wrap and clearance.
+    let outer = s.outer_mm;
+    let _ = write!(
+        o,
+        r##"<rect class="insulation" x="{x:.2}" y="{coil_top:.2}" width="{outer:.2}" height="{traverse:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
+    );
+    x += outer;
+    let end = x0 + avail_w;
+    if x < end {
+        let _ = write!(
+            o,
+            r##"<rect class="clearance" x="{x:.2}" y="{y0:.2}" width="{:.2}" height="{h:.2}" fill="none" stroke="#444" stroke-width="0.2" stroke-dasharray="1 1"/><text x="{:.2}" y="{:.2}" font-size="2.2" transform="rotate(-90 {:.2} {:.2})" text-anchor="middle">clearance {} mm</text>"##,
+            end - x,
+            (x + end) / 2.0 + 0.8,
+            y0 + h / 2.0,
+            (x + end) / 2.0 + 0.8,
+            y0 + h / 2.0,
+            num(end - x, 1)
+        );
+    } else {
+        let _ = write!(
+            o,
+            r##"<rect class="overflow" x="{end:.2}" y="{coil_top:.2}" width="{:.2}" height="{traverse:.2}" fill="none" stroke="#b00" stroke-width="0.5" stroke-dasharray="1.5 1"/>"##,
+            x - end
+        );
+    }
+    // Outer leg.
+    let _ = write!(
+        o,
+        r#"<rect x="{end:.2}" y="{y0:.2}" width="2" height="{h:.2}" fill="url(#steel)"/>"#
+    );
+    // Legend at the right.
+    let lx = end + 4.0;
+    for (k, w) in p.windings.iter().enumerate() {
+        let (pat, _) = PATTERNS[k % PATTERNS.len()];
+        let ly = y0 + 2.0 + k as f64 * 6.0;
+        let _ = write!(
+            o,
+            r##"<rect x="{lx:.2}" y="{ly:.2}" width="4" height="4" fill="url(#{pat})" stroke="#000" stroke-width="0.2"/><text x="{:.2}" y="{:.2}">{} {}</text>"##,
+            lx + 5.0,
+            ly + 3.2,
+            k + 1,
+            esc(&w.name)
+        );
+    }
+    let ly = y0 + 2.0 + nw as f64 * 6.0;
+    let _ = write!(
+        o,
+        r##"<rect x="{lx:.2}" y="{ly:.2}" width="4" height="4" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.2"/><text x="{:.2}" y="{:.2}">insulation</text>"##,
+        lx + 5.0,
+        ly + 3.2
+    );
+    let ly = ly + 6.0;
+    let _ = write!(
+        o,
+        r##"<rect x="{lx:.2}" y="{ly:.2}" width="4" height="4" fill="#c8b38a" stroke="#5a4a2a" stroke-width="0.2"/><text x="{:.2}" y="{:.2}">bobbin</text>"##,
+        lx + 5.0,
+        ly + 3.2
+    );
+    if c.shape == Shape::Ui {
+        let _ = write!(
+            o,
+            r#"<text x="{lx:.2}" y="{:.2}" font-size="2.2">U-I: one leg's half</text>"#,
+            ly + 9.0
+        );
+    }
+    // Scale bar: a round number of mm near a third of the window width.
+    let bar = [1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0]
+        .into_iter()
+        .rfind(|b| *b <= avail_w.max(1.0))
+        .unwrap_or(1.0);
+    let by = y0 + h + 6.0;
+    let _ = write!(
+        o,
+        r##"<g class="scale-bar"><line x1="{x0:.2}" y1="{by:.2}" x2="{:.2}" y2="{by:.2}" stroke="#000" stroke-width="0.6"/><line x1="{x0:.2}" y1="{:.2}" x2="{x0:.2}" y2="{:.2}" stroke="#000" stroke-width="0.4"/><line x1="{:.2}" y1="{:.2}" x2="{:.2}" y2="{:.2}" stroke="#000" stroke-width="0.4"/><text x="{:.2}" y="{:.2}">{} mm</text></g>"##,
+        x0 + bar,
+        by - 1.2,
+        by + 1.2,
+        x0 + bar,
+        by - 1.2,
+        x0 + bar,
+        by + 1.2,
+        x0 + bar + 1.5,
+        by + 1.0,
+        num(bar, 0)
+    );
+    o += "</svg>";
+    o
+}
+
+/// The SVG file: the cross-section alone, with an XML declaration.
+pub fn svg_card(p: &Plan) -> String {
+    format!(
+        "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n{}\n",
+        cross_section_svg(p, 420.0)
+    )
+}
+
+const CSS: &str = r#"
+@page { size: A5 portrait; margin: 7mm; }
+* { box-sizing: border-box; }
+html, body { margin: 0; padding: 0; }
+body { font-family: "DejaVu Sans", "Liberation Sans", Arial, sans-serif; font-size: 7.6pt; line-height: 1.22; color: #000; background: #fff; }
+.page { width: 134mm; }
+h1 { font-size: 12pt; margin: 0 0 1mm 0; }
+.sub { font-size: 7.4pt; margin: 0 0 1.5mm 0; }
+.order { font-size: 7.4pt; margin: 0 0 1.5mm 0; font-weight: bold; }
+.top { display: flex; gap: 3mm; align-items: flex-start; }
+.windings { flex: 1 1 auto; }
+.xsec-box { flex: 0 0 38mm; text-align: center; font-size: 6.4pt; }
+.xsec-box svg { width: 38mm; height: auto; max-height: 80mm; }
+.w { border: 0.35mm solid #000; border-radius: 1mm; padding: 1mm 1.5mm; margin: 0 0 1.5mm 0; page-break-inside: avoid; }
+.w h2 { font-size: 8.4pt; margin: 0 0 0.5mm 0; }
+.turns { font-size: 15pt; font-weight: bold; }
+.tpl { font-size: 8.4pt; font-weight: bold; }
+.cp { font-size: 8.6pt; font-weight: bold; letter-spacing: 0.1pt; word-spacing: 1.2pt; }
+.small { font-size: 6.6pt; }
+.row { display: flex; gap: 2mm; align-items: center; flex-wrap: wrap; }
+table.cpt { width: auto; margin: 0.5mm 0; font-size: 6.6pt; }
+table.cpt td, table.cpt th { padding: 0.2mm 0.9mm; text-align: right; }
+table.cpt td.cp { font-size: 9pt; font-weight: bold; }
+table { border-collapse: collapse; width: 100%; font-size: 7pt; }
+td, th { border: 0.2mm solid #777; padding: 0.3mm 1mm; text-align: left; }
+td.n { text-align: right; }
+.two { display: flex; gap: 3mm; margin: 1mm 0; }
+.two > div { flex: 1 1 0; }
+h3 { font-size: 8pt; margin: 0.8mm 0 0.5mm 0; }
+.verdict { font-weight: bold; font-size: 8.6pt; border: 0.5mm solid #000; padding: 0.8mm 1.5mm; margin: 1mm 0; }
+.verdict.fail { border-style: dashed; }
+ul { margin: 0; padding-left: 3.5mm; }
+.cautions { font-size: 6.2pt; line-height: 1.15; }
+.warn { font-size: 6.6pt; }
+.dense { font-size: 7pt; }
+.dense .turns { font-size: 13pt; }
+.dense .w { padding: 0.6mm 1.2mm; margin-bottom: 1mm; }
+.dense .small, .dense .cautions { font-size: 5.9pt; }
+.dense .cautions, .denser .cautions { columns: 2; column-gap: 4mm; }
+.dense .cautions li, .denser .cautions li { break-inside: avoid; }
+.denser { font-size: 6.4pt; line-height: 1.15; }
+.denser .turns { font-size: 11pt; }
+.denser .w { padding: 0.4mm 1mm; margin-bottom: 0.7mm; }
+.denser .w h2 { font-size: 7.4pt; }
+.denser .small, .denser .cautions, .denser .warn { font-size: 5.5pt; }
+.denser table.cpt td.cp { font-size: 7.6pt; }
+"#;
+
+/// The HTML card: one self-contained file, one A5 page when printed at 100 %.
+pub fn html_card(p: &Plan, o: &CardOptions) -> String {
+    let mut s = String::new();
+    s += "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"/>";
+    let _ = write!(s, "<title>Winding card: {}</title>", esc(&p.name));
+    // More windings or layers than a roomy card holds: a denser type scale, still printed at 100 %.
+    let load: usize = p.windings.len() * 3
+        + p.windings
+            .iter()
+            .map(|w| w.coil.checkpoints.len().div_ceil(12) + usize::from(!w.taps.is_empty()))
+            .sum::<usize>()
+        + p.warnings.len()
+        + usize::from(p.core.shape == Shape::Ui);
+    let density = if load > 12 {
+        " denser"
+    } else if load > 8 {
+        " dense"
+    } else {
+        ""
+    };
+    let _ = write!(
+        s,
+        "<style>{CSS}</style></head><body><div class=\"page{density}\">"
+    );
+    let _ = write!(s, "<h1>Winding card: {}</h1>", esc(&p.name));
+    let _ = write!(
+        s,
+        "<p class=\"sub\">{}<br/>{}</p>",
+        esc(&core_line(p)),
+        esc(&drive_line(p))
+    );
+    s += "<p class=\"order\">Wind innermost first, every winding in the same direction. Mark each start lead before the first turn.";
+    if p.core.shape == Shape::Ui {
+        s += " U-I core: every winding is two half-coils in series, one per leg, fluxes adding; layers and checkpoints are per leg.";
+    }
+    s += "</p>";
+    s += "<div class=\"top\"><div class=\"windings\">";
+    let n = p.windings.len();
+    for (k, w) in p.windings.iter().enumerate() {
+        s += "<div class=\"w\">";
+        let _ = write!(
+            s,
+            "<h2>{} &#160;{} &#8220;{}&#8221; &#8212; {}</h2>",
+            k + 1,
+            esc(role_word(w)),
+            esc(&w.name),
+            esc(&volts_amps(p, w))
+        );
+        let legs = if p.core.shape == Shape::Ui {
+            format!(
+                " &#160;(leg 1: {}, leg 2: {})",
+                w.coil.coil_turns,
+                w.turns - w.coil.coil_turns
+            )
+        } else {
+            String::new()
+        };
+        if w.kept {
+            let _ = write!(s, "<div><span class=\"turns\">{} turns</span>{legs} &#160; kept on the core as it is: do not unwind</div>", w.turns);
+            let _ = write!(
+                s,
+                "<div class=\"small\">{} {}</div>",
+                esc(&wire_text(w)),
+                esc(&insulation_note(p, k + 1 == n))
+            );
+        } else {
+            let _ = write!(
+                s,
+                "<div><span class=\"turns\">{} turns</span>{legs} &#160; <span class=\"tpl\">{} per layer &#215; {} layers</span></div>",
+                w.turns, w.coil.turns_per_layer, w.coil.layers
+            );
+            let _ = write!(s, "<div>{}</div>", esc(&wire_text(w)));
+            s += "<div class=\"row\"><table class=\"cpt\"><tr><th>layer</th>";
+            for k in 1..=w.coil.checkpoints.len() {
+                let _ = write!(s, "<td>{k}</td>");
+            }
+            s += "</tr><tr><th>ends at turn</th>";
+            for t in &w.coil.checkpoints {
+                let _ = write!(s, "<td class=\"cp\">{t}</td>");
+            }
+            s += "</tr></table>";
+            if let Some(t) = tap_text(w) {
+                let _ = write!(s, "<div class=\"tpl\">Taps: {}</div>", esc(&t));
+            }
+            s += "</div>";
+            let _ = write!(
+                s,
+                "<div class=\"small\">{} {}</div>",
+                esc(&lead_note(k)),
+                esc(&insulation_note(p, k + 1 == n))
+            );
+        }
+        s += "</div>";
+    }
+    s += "</div><div class=\"xsec-box\">";
+    s += &cross_section_svg(p, 160.0);
+    s += "<div>One window, to scale</div></div></div>";
+    s += "<div class=\"two\"><div>";
+    let _ = write!(s, "<h3>Cut and buy (spare {} %)</h3><table><tr><th>winding</th><th>cut/strand m</th><th>strands</th><th>Cu g</th></tr>", num(o.spare * 100.0, 0));
+    for w in p.windings.iter().filter(|w| !w.kept) {
+        let _ = write!(
+            s,
+            "<tr><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>",
+            esc(&w.name),
+            num(w.cut_length_m, 2),
+            w.wire.strands,
+            num(w.copper_mass_g, 0)
+        );
+    }
+    s += "</table><ul class=\"small\">";
+    for b in buy_list(p, o.spare) {
+        let _ = write!(s, "<li>Buy {}</li>", esc(&buy_text(&b)));
+    }
+    s += "</ul></div><div><h3>Bench checks</h3><table><tr><th>winding</th><th>&#937; at 20 &#176;C</th><th>no-load V</th></tr>";
+    for w in &p.windings {
+        let _ = write!(
+            s,
+            "<tr><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>",
+            esc(&w.name),
+            sig3(w.resistance_20c_ohm),
+            if w.role == Role::Secondary {
+                num(w.volts_no_load, 1)
+            } else {
+                "(supply)".to_string()
+            }
+        );
+    }
+    s += "</table><ul class=\"small\">";
+    if let Some(i0) = p.drive.no_load_amps {
+        let _ = write!(
+            s,
+            "<li>Idle primary current about {} A (from the sweep).</li>",
+            sig3(i0)
+        );
+    }
+    for l in power_up_lines() {
+        let _ = write!(s, "<li>{}</li>", esc(l));
+    }
+    s += "</ul></div></div>";
+    let _ = write!(
+        s,
+        "<div class=\"verdict{}\">{}</div>",
+        if p.verdict.ok { "" } else { " fail" },
+        esc(&verdict_line(p))
+    );
+    if !p.warnings.is_empty() {
+        s += "<ul class=\"warn\">";
+        for w in &p.warnings {
+            let _ = write!(s, "<li>{}</li>", esc(w));
+        }
+        s += "</ul>";
+    }
+    s += "<h3>Cautions</h3><ul class=\"cautions\">";
+    for c in &p.cautions {
+        let _ = write!(s, "<li>{}</li>", esc(c));
+    }
+    s += "</ul></div>";
+    // Last resort for an unusually long card: draw the page smaller inside a box of the printable
+    // height of A5 (210 mm less two 7 mm margins), so it still prints on one page at 100 % scale.
+    s += "<script>(function(){var p=document.querySelector('.page');if(!p)return;var mm=96/25.4,avail=195*mm;var h=p.getBoundingClientRect().height;if(h>avail){var r=Math.max(0.5,0.92*avail/h);var f=document.createElement('div');f.className='fit';f.style.height=avail+'px';f.style.overflow='hidden';p.parentNode.insertBefore(f,p);f.appendChild(p);p.style.transformOrigin='0 0';p.style.transform='scale('+r+')';}})();</script>";
+    s += "</body></html>\n";
+    s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn wrap_keeps_within_width() {
+        let t = wrap(
+            "one two three four five six seven eight nine ten",
+            12,
+            "  ",
+            "    ",
+        );
+        assert!(t.lines().all(|l| l.chars().count() <= 12), "{t}");
+        assert!(t.starts_with("  one"));
+    }
+}

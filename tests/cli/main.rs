@@ -1,5 +1,6 @@
 //! Integration tests: each module drives the real `ironwind` binary through one command.
 
+mod card_cmd;
 mod common;
 mod contract;
 mod core_cmd;
