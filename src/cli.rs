@@ -73,6 +73,75 @@ enum Command {
         #[arg(long, default_value_t = 10.0)]
         spare: f64,
     },
+    /// Can a core carry a wattage: its capacity, the limit that binds, and what would change it
+    #[command(
+        allow_negative_numbers = true,
+        after_help = "Examples:\n  ironwind rate examples/garage_charger.toml\n  ironwind rate examples/garage_charger.toml --va 250 --format json\n  ironwind rate --tongue 38 --stack 62 --window 19x57 --frequency 50 --primary 230 --output 24 --va 600\n  ironwind rate job.toml --duty 0.25 --plot capacity.svg"
+    )]
+    Rate {
+        /// The job file (TOML); or describe the core and windings with the flags below
+        job: Option<PathBuf>,
+        /// Target output, VA (default: the job's own outputs)
+        #[arg(long)]
+        va: Option<f64>,
+        /// Fraction of the time the load is on (0 < duty ≤ 1), for welders and motor starts
+        #[arg(long, default_value_t = 1.0)]
+        duty: f64,
+        /// Write capacity and total loss against flux density as an SVG chart
+        #[arg(long)]
+        plot: Option<PathBuf>,
+        /// Exit with code 3 when the target is not carried
+        #[arg(long)]
+        strict: bool,
+        /// Verify by a dense brute-force scan of VA instead of the search
+        #[arg(long)]
+        scan: bool,
+        /// Tongue width, mm or with a unit (without a job file)
+        #[arg(long, conflicts_with = "job")]
+        tongue: Option<String>,
+        /// Stack depth, mm or with a unit
+        #[arg(long, conflicts_with = "job")]
+        stack: Option<String>,
+        /// One window, WIDTHxHEIGHT in mm
+        #[arg(long, conflicts_with = "job")]
+        window: Option<String>,
+        /// Lamination shape
+        #[arg(long, value_enum, default_value_t = ShapeArg::Ei)]
+        shape: ShapeArg,
+        /// Stacking factor
+        #[arg(long, default_value_t = 0.95)]
+        stacking: f64,
+        /// Steel: unknown, non-oriented, grain-oriented or a grade like M400-50A
+        #[arg(long, default_value = "unknown")]
+        steel: String,
+        /// Supply frequency, Hz
+        #[arg(long, default_value_t = 50.0)]
+        frequency: f64,
+        /// Primary volts (RMS for sine; amplitude for square)
+        #[arg(long, conflicts_with = "job")]
+        primary: Option<f64>,
+        /// Output volts RMS (repeat for more outputs; they share the load equally by VA)
+        #[arg(long, conflicts_with = "job")]
+        output: Vec<f64>,
+        /// Drive waveform of the primary
+        #[arg(long, value_enum, default_value_t = WaveArg::Sine)]
+        waveform: WaveArg,
+        /// Flux density, T (default: the steel's)
+        #[arg(long)]
+        flux: Option<f64>,
+        /// Allowed temperature rise, °C
+        #[arg(long)]
+        max_rise: Option<f64>,
+        /// Ambient temperature, °C
+        #[arg(long)]
+        ambient: Option<f64>,
+        /// Wire system
+        #[arg(long, value_enum, default_value_t = SystemArg::Metric)]
+        system: SystemArg,
+        /// Output format
+        #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
+        format: SimpleFormat,
+    },
     /// Geometry of a measured core, with the rule-of-thumb rating
     #[command(
         allow_negative_numbers = true,
@@ -206,6 +275,12 @@ enum SimpleFormat {
 }
 
 #[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum WaveArg {
+    Sine,
+    Square,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
 enum ShapeArg {
     Ei,
     Ui,
@@ -275,6 +350,9 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             let p = plan(&job);
             check_windable(&p, &origin)?;
             write_plan(out, &p, format, cs)?;
+        }
+        Command::Rate { .. } => {
+            return rate_command(out, cli.command, cs);
         }
         Command::Card {
             job,
@@ -602,6 +680,350 @@ fn write_core(out: &mut dyn Write, d: &CoreDims, format: SimpleFormat, cs: Chars
         }
     }
     .map_err(out_err)
+}
+
+/// Builds a job from the quick-look flags of `rate`.
+#[allow(clippy::too_many_arguments)]
+fn quick_job(
+    tongue: &str,
+    stack: &str,
+    window: &str,
+    shape: ShapeArg,
+    stacking: f64,
+    steel: &str,
+    frequency: f64,
+    primary: f64,
+    outputs: &[f64],
+    waveform: WaveArg,
+    flux: Option<f64>,
+    max_rise: Option<f64>,
+    ambient: Option<f64>,
+    system: SystemArg,
+    va: Option<f64>,
+) -> Result<Job> {
+    let dims = core_from_flags(tongue, stack, window, shape, stacking)?;
+    if outputs.is_empty() {
+        return Err(Error::bad_value(
+            "command line",
+            "--output",
+            "(none)",
+            "give at least one output voltage, --output VOLTS",
+        ));
+    }
+    let share = va.unwrap_or(100.0) / outputs.len() as f64;
+    let mut text = format!(
+        "name = \"quick rating\"\n[core]\nshape = \"{}\"\ntongue_mm = {}\nstack_mm = {}\nwindow_width_mm = {}\nwindow_height_mm = {}\nstacking_factor = {}\nsteel = {:?}\n[supply]\nfrequency_hz = {}\nwaveform = \"{}\"\n[limits]\n",
+        dims.shape.name(),
+        dims.tongue_mm,
+        dims.stack_mm,
+        dims.window_width_mm,
+        dims.window_height_mm,
+        dims.stacking_factor,
+        steel,
+        frequency,
+        if waveform == WaveArg::Square { "square" } else { "sine" },
+    );
+    if let Some(b) = flux {
+        text += &format!("flux_density_t = {b}\n");
+    }
+    if let Some(r) = max_rise {
+        text += &format!("max_rise_c = {r}\n");
+    }
+    if let Some(t) = ambient {
+        text += &format!("ambient_c = {t}\n");
+    }
+    text += &format!(
+        "[wire]\nsystem = \"{}\"\n",
+        if system == SystemArg::Awg {
+            "awg"
+        } else {
+            "metric"
+        }
+    );
+    text += &format!("[[winding]]\nname = \"primary\"\nrole = \"primary\"\nvolts = {primary}\n");
+    for (k, v) in outputs.iter().enumerate() {
+        let amps = if *v > 0.0 { share / v } else { 0.0 };
+        text += &format!(
+            "[[winding]]\nname = \"output {}\"\nrole = \"secondary\"\nvolts = {v}\namps = {amps}\n",
+            k + 1
+        );
+    }
+    // The flags are checked by the same rules as a job file; messages name the flag's key.
+    parse_job(&text, "command line", &|_| {
+        Err(Error::Failed("no sweep from flags".into()))
+    })
+}
+
+#[derive(serde::Serialize)]
+struct RateVerdict {
+    ok: bool,
+    margin_pct: f64,
+    target_va: f64,
+}
+
+#[derive(serde::Serialize)]
+struct RateJson<'a> {
+    name: &'a str,
+    capacity: &'a crate::capacity::Capacity,
+    verdict: Option<RateVerdict>,
+    options: &'a [crate::capacity::Improvement],
+    duty: f64,
+    notes: Vec<String>,
+    cautions: &'a [&'a str],
+}
+
+fn rate_command(out: &mut dyn Write, cmd: Command, cs: Charset) -> Result<i32> {
+    use crate::capacity::{
+        capacity, flux_sweep, options, scan as scan_capacity, usable_flux_range,
+    };
+    let Command::Rate {
+        job,
+        va,
+        duty,
+        plot,
+        strict,
+        scan,
+        tongue,
+        stack,
+        window,
+        shape,
+        stacking,
+        steel,
+        frequency,
+        primary,
+        output,
+        waveform,
+        flux,
+        max_rise,
+        ambient,
+        system,
+        format,
+    } = cmd
+    else {
+        return Ok(0);
+    };
+    if let Some(p) = va {
+        if !(p.is_finite() && p > 0.0 && p <= 1e7) {
+            return Err(Error::bad_value(
+                "command line",
+                "--va",
+                p,
+                "must be > 0 VA and ≤ 10000000 VA",
+            ));
+        }
+    }
+    if !(duty.is_finite() && duty > 0.0 && duty <= 1.0) {
+        return Err(Error::bad_value(
+            "command line",
+            "--duty",
+            duty,
+            "must be > 0 and ≤ 1 (fraction of the time loaded)",
+        ));
+    }
+    let mut job = match (&job, &tongue, &stack, &window, primary) {
+        (Some(path), ..) => load_job(path)?.0,
+        (None, Some(t), Some(s), Some(w), Some(p)) => quick_job(
+            t, s, w, shape, stacking, &steel, frequency, p, &output, waveform, flux, max_rise,
+            ambient, system, va,
+        )?,
+        _ => {
+            return Err(Error::bad_value(
+                "command line",
+                "JOB or --tongue/--stack/--window/--primary/--output",
+                "(missing)",
+                "give a job file, or --tongue, --stack, --window, --primary and --output",
+            ))
+        }
+    };
+    job.load_duty = duty;
+    let cap = if scan {
+        scan_capacity(&job)
+    } else {
+        capacity(&job)
+    };
+    let base_va: f64 = job
+        .windings
+        .iter()
+        .filter(|w| w.role == crate::job::Role::Secondary)
+        .map(|w| w.volts * w.amps)
+        .sum();
+    let target = va.or(if tongue.is_none() {
+        Some(base_va)
+    } else {
+        None
+    });
+    let verdict = target.map(|t| RateVerdict {
+        ok: t <= cap.max_va * (1.0 + 1e-12),
+        margin_pct: (cap.max_va - t) / t * 100.0,
+        target_va: t,
+    });
+    let opts = match &verdict {
+        Some(v) if !v.ok => options(&job, &cap),
+        _ => Vec::new(),
+    };
+    let mut notes = Vec::new();
+    if duty < 1.0 {
+        notes.push(format!(
+            "intermittent duty {duty}: heating is rated on the time-averaged copper loss; this assumes each load period is short against the core's thermal time constant (minutes to tens of minutes)"
+        ));
+    }
+    notes.push("the area-product and rule-of-thumb figures are quick estimates; the capacity comes from full plans with losses and heating".to_string());
+    if let Some(path) = &plot {
+        let (lo, hi) = usable_flux_range(&job.steel.kind);
+        let pts = flux_sweep(&job, lo, hi, 18);
+        let b = cap.flux_density_t;
+        let svg = crate::render::svg::chart(&crate::render::svg::Chart {
+            title: format!("Capacity and loss against flux density: {}", job.name),
+            x_label: "peak flux density (T)".into(),
+            y_label: "capacity (VA)".into(),
+            y2_label: Some("total loss at capacity (W)".into()),
+            x_scale: crate::render::svg::Scale::Linear,
+            y_scale: crate::render::svg::Scale::Linear,
+            series: vec![
+                crate::render::svg::Series {
+                    label: "capacity (VA, left)".into(),
+                    points: pts.iter().map(|p| (p.0, p.1)).collect(),
+                    dots: true,
+                    dash: "",
+                    colour: "#1f4e79",
+                    right_axis: false,
+                },
+                crate::render::svg::Series {
+                    label: "total loss (W, right)".into(),
+                    points: pts.iter().map(|p| (p.0, p.2)).collect(),
+                    dots: true,
+                    dash: "5 3",
+                    colour: "#7a4a12",
+                    right_axis: true,
+                },
+            ],
+            markers: vec![crate::render::svg::Marker {
+                x: b,
+                label: format!("chosen flux {b:.2} T"),
+                dash: "2 2",
+            }],
+        });
+        write_file(path, svg.as_bytes())?;
+    }
+    let doc = RateJson {
+        name: &job.name,
+        capacity: &cap,
+        verdict,
+        options: &opts,
+        duty,
+        notes,
+        cautions: crate::plan::CAUTIONS,
+    };
+    match format {
+        SimpleFormat::Json => render::json::write_json(out, &doc),
+        SimpleFormat::Text => {
+            let s = rate_text(&doc, cs);
+            let s = if cs == Charset::Ascii {
+                render::asciify(&s)
+            } else {
+                s
+            };
+            write!(out, "{s}")
+        }
+    }
+    .map_err(out_err)?;
+    let carried = doc.verdict.as_ref().is_none_or(|v| v.ok);
+    Ok(if strict && !carried { 3 } else { 0 })
+}
+
+fn rate_text(d: &RateJson, cs: Charset) -> String {
+    use render::num;
+    let c = d.capacity;
+    let mut s = format!("ironwind rate: {}\n\n", d.name);
+    s += &render::pairs(
+        &[
+            (
+                "capacity",
+                format!(
+                    "{} VA ({})",
+                    num(c.max_va, 0),
+                    if c.method == "scan" {
+                        "dense scan"
+                    } else {
+                        "search"
+                    }
+                ),
+            ),
+            ("limit that binds", c.limit.word().to_string()),
+            (
+                "at capacity",
+                format!(
+                    "rise {} °C, copper fill {}, {} A/mm², efficiency {} %",
+                    num(c.rise_c, 1),
+                    num(c.copper_fill, 2),
+                    num(c.current_density_a_mm2, 2),
+                    num(c.efficiency * 100.0, 1)
+                ),
+            ),
+            ("flux density", format!("{} T", num(c.flux_density_t, 3))),
+            (
+                "area-product estimate",
+                format!(
+                    "{} VA (McLyman, Ku 0.4, J from Kj)",
+                    num(c.area_product_va, 0)
+                ),
+            ),
+            (
+                "rule of thumb",
+                format!(
+                    "{} VA (Ae in cm² ≈ √VA, common practice)",
+                    num(c.rule_of_thumb_va, 0)
+                ),
+            ),
+            ("plans evaluated", c.plans_evaluated.to_string()),
+        ],
+        cs,
+    );
+    if !c.wires.is_empty() {
+        s += "\nWire at capacity\n";
+        let mut rows = vec![vec![
+            "winding".to_string(),
+            "amps".into(),
+            "turns".into(),
+            "wire".into(),
+            "strands".into(),
+        ]];
+        for w in &c.wires {
+            rows.push(vec![
+                w.name.clone(),
+                render::sig3(w.amps),
+                w.turns.to_string(),
+                w.wire.clone(),
+                w.strands.to_string(),
+            ]);
+        }
+        s += &render::table(rows, 1, cs);
+    }
+    if let Some(v) = &d.verdict {
+        s += &format!(
+            "\nTarget {} VA: {} (margin {} %)\n",
+            num(v.target_va, 0),
+            if v.ok { "CARRIES" } else { "DOES NOT CARRY" },
+            num(v.margin_pct, 1)
+        );
+    }
+    if !d.options.is_empty() {
+        s += "\nWhat would change it\n";
+        let mut rows = vec![vec!["change".to_string(), "capacity VA".into()]];
+        for o in d.options {
+            rows.push(vec![o.change.clone(), num(o.max_va, 0)]);
+        }
+        s += &render::table(rows, 1, cs);
+    }
+    s += "\n";
+    for n in &d.notes {
+        s += &format!("note: {n}\n");
+    }
+    s += "\nCautions\n";
+    for c in d.cautions {
+        s += &format!("  * {c}\n");
+    }
+    s
 }
 
 struct ProbeArgs {

@@ -195,6 +195,12 @@ pub struct Job {
     pub windings: Vec<WindingSpec>,
     /// Probe measurements.
     pub probe: Option<ProbeInput>,
+    /// Fraction of the time the load is on (1 continuous; `rate --duty` for welders and motor starts):
+    /// heating is rated on the time-averaged copper loss.
+    pub load_duty: f64,
+    /// How many times the heat a surface sheds by natural convection (1; 2 for forced air, common
+    /// practice).
+    pub cooling_factor: f64,
 }
 
 impl Job {
@@ -761,6 +767,8 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
         lead_m,
         windings,
         probe,
+        load_duty: 1.0,
+        cooling_factor: 1.0,
     })
 }
 

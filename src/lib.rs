@@ -5,6 +5,7 @@
 //! The command-line interface in `cli` is a thin layer over it.
 #![deny(missing_docs)]
 
+pub mod capacity;
 pub mod cli;
 pub mod data;
 pub mod error;

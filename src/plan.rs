@@ -309,7 +309,8 @@ pub fn plan(job: &Job) -> Plan {
         .and_then(|p| p.test.as_ref())
         .map(|t| (t, test_report(t, f, ae)));
     let sweep = job.probe.as_ref().and_then(|p| p.sweep.as_ref());
-    let sweep_rep = sweep.map(|s| sweep_report(&s.curve, s.turns, f, ae, g.path_length_mm));
+    let sweep_rep =
+        sweep.map(|s| sweep_report(&s.curve, s.knees, s.turns, f, ae, g.path_length_mm));
     if let Some((_, r)) = &test {
         warnings.extend(donor_flux_notes(r.donor_flux_t));
     }
@@ -402,6 +403,7 @@ pub fn plan(job: &Job) -> Plan {
     let mut max_fl: Vec<Option<f64>>;
     let mut primary_ok;
     let mut iterations = 0;
+    let mut final_pass = false;
     loop {
         iterations += 1;
         flux = wf.flux_t(primary.volts, f, st.n_p as f64, ae);
@@ -531,11 +533,23 @@ pub fn plan(job: &Job) -> Plan {
         let settled = turns == st.turns && (i_p - st.primary_amps).abs() <= 1e-9 * i_p.max(1e-9);
         let repeat = seen.contains(&key);
         st.primary_amps = i_p;
-        if settled || repeat || iterations >= 60 {
-            // Settled: the state evaluated above is consistent with i_p. On a repeat (a wire size
-            // flipping at a boundary) the state just evaluated is kept, so every figure reported
-            // belongs to one layout.
+        if settled || final_pass {
             break;
+        }
+        if repeat || iterations >= 60 {
+            // A cycle (a wire size or a layer flipping at a boundary): settle on the turns that meet
+            // every target (the larger output counts, the smaller primary under a kept output) and
+            // evaluate that state once more, so every figure reported belongs to one layout.
+            for (i, w) in job.windings.iter().enumerate() {
+                if i != p_idx && !w.kept {
+                    turns[i] = turns[i].max(st.turns[i]);
+                }
+            }
+            st.turns = turns;
+            st.n_p = new_np.min(st.n_p);
+            st.turns[p_idx] = st.n_p;
+            final_pass = true;
+            continue;
         }
         seen.push(key);
         st.turns = turns;
@@ -613,7 +627,8 @@ pub fn plan(job: &Job) -> Plan {
         ),
     };
     let surface = box_surface_cm2(box_w, box_h, job.core.stack_mm + 2.0 * total_build);
-    let rise = rise_c(p_cu + core_w, surface);
+    // Intermittent load: the copper loss averaged over time; forced air: more surface, in effect.
+    let rise = rise_c(p_cu * job.load_duty + core_w, surface * job.cooling_factor);
 
     // Drive extras.
     let no_load = sweep.map(|s| no_load_amps(s, f, ae, flux, st.n_p));

@@ -86,6 +86,8 @@ pub struct Sweep {
     pub winding: Option<String>,
     /// The cleaned curve.
     pub curve: ExcitationCurve,
+    /// Its knees, found once.
+    pub knees: Knees,
 }
 
 /// The checked probe measurements of a job.
@@ -168,12 +170,14 @@ pub fn check_probe_table(
             let curve =
                 ExcitationCurve::new(&points.iter().map(|p| (p.volts, p.amps)).collect::<Vec<_>>())
                     .map_err(|m| Error::bad_input(&origin, m))?;
+            let knees = curve.knees();
             Some(Sweep {
                 origin,
                 points,
                 turns,
                 winding: rp.sweep_winding.clone(),
                 curve,
+                knees,
             })
         }
         (Some(_), None) => {
@@ -368,16 +372,16 @@ pub fn sweep_volts_per_tesla(turns: u32, freq_hz: f64, area_net_mm2: f64) -> f64
     K_SINE * freq_hz * turns as f64 * area_net_mm2 * 1e-6
 }
 
-/// Analyses a sweep on a core of net area `area_net_mm2` and path `path_mm`.
+/// Analyses a sweep (with its knees, found once) on a core of net area `area_net_mm2` and path `path_mm`.
 pub fn sweep_report(
     curve: &ExcitationCurve,
+    knees: Knees,
     turns: u32,
     freq_hz: f64,
     area_net_mm2: f64,
     path_mm: f64,
 ) -> SweepReport {
     let vpt = sweep_volts_per_tesla(turns, freq_hz, area_net_mm2);
-    let knees: Knees = curve.knees();
     let points = curve
         .volts
         .iter()
@@ -454,7 +458,7 @@ pub fn probe_run(
     path_estimated: bool,
 ) -> ProbeRun {
     let t = test.map(|t| test_report(t, freq_hz, area_net_mm2));
-    let s = sweep.map(|(c, n)| sweep_report(c, n, freq_hz, area_net_mm2, path_mm));
+    let s = sweep.map(|(c, n)| sweep_report(c, c.knees(), n, freq_hz, area_net_mm2, path_mm));
     let mut warnings = Vec::new();
     if let Some(r) = &t {
         warnings.extend(donor_flux_notes(r.donor_flux_t));
@@ -635,6 +639,10 @@ mod tests {
             turns: 100,
             winding: None,
             curve: ExcitationCurve::new(&pts).expect("curve"),
+            knees: Knees {
+                iec_volts: None,
+                tangent_volts: None,
+            },
         };
         let vpt = sweep_volts_per_tesla(100, 50.0, 1000.0);
         let b = 50.0 / vpt;

@@ -84,7 +84,7 @@ struct Axis {
 }
 
 impl Axis {
-    fn new(scale: Scale, values: impl Iterator<Item = f64>) -> Axis {
+    fn new(scale: Scale, values: impl Iterator<Item = f64>, from_zero: bool) -> Axis {
         let vals: Vec<f64> = values
             .filter(|v| v.is_finite() && (scale == Scale::Linear || *v > 0.0))
             .collect();
@@ -106,13 +106,14 @@ impl Axis {
                 }
             }
             Scale::Linear => {
-                if lo > 0.0 {
+                if from_zero && lo > 0.0 {
                     lo = 0.0;
                 }
                 if hi <= lo {
                     hi = lo + 1.0;
                 }
                 let step = nice_step((hi - lo) / 5.0);
+                lo = (lo / step).floor() * step;
                 hi = (hi / step).ceil() * step;
             }
         }
@@ -204,6 +205,7 @@ pub fn chart(c: &Chart) -> String {
             .iter()
             .flat_map(|s| s.points.iter().map(|p| p.0))
             .chain(c.markers.iter().map(|m| m.x)),
+        false,
     );
     let y = Axis::new(
         c.y_scale,
@@ -211,6 +213,7 @@ pub fn chart(c: &Chart) -> String {
             .iter()
             .filter(|s| !s.right_axis)
             .flat_map(|s| s.points.iter().map(|p| p.1)),
+        true,
     );
     let y2 = Axis::new(
         Scale::Linear,
@@ -218,6 +221,7 @@ pub fn chart(c: &Chart) -> String {
             .iter()
             .filter(|s| s.right_axis)
             .flat_map(|s| s.points.iter().map(|p| p.1)),
+        true,
     );
     let pw = W - L - R;
     let ph = H - T - B;

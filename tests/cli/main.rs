@@ -8,4 +8,5 @@ mod demo;
 mod input_errors;
 mod plan_cmd;
 mod probe_cmd;
+mod rate_cmd;
 mod wire_cmd;
