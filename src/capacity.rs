@@ -18,15 +18,15 @@
 use crate::geometry::rule_of_thumb_va;
 use crate::job::{Job, Role};
 use crate::magnetics::Waveform;
-use crate::plan::{plan, Plan};
+use crate::plan::{plan_lean, Plan};
 use serde::Serialize;
 
 /// Lowest and highest current density the search considers, A/mm².
 const J_RANGE: (f64, f64) = (0.1, 40.0);
 /// Relative precision of the J bisection (wire sizes step by about 12 % in area).
-const J_TOL: f64 = 0.01;
+const J_TOL: f64 = 0.02;
 /// Relative precision of the VA bisection.
-const VA_TOL: f64 = 2e-4;
+const VA_TOL: f64 = 1e-3;
 
 /// What limits a core.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
@@ -126,72 +126,116 @@ impl Rater {
         }
         self.job.current_density_a_mm2 = j;
         self.plans += 1;
-        plan(&self.job)
+        plan_lean(&self.job)
     }
 
     /// Tries one VA: the smallest J whose wires fit, then heating and outputs at that J. The J found
-    /// at the previous VA tried, when there is one, brackets the search first.
+    /// at the previous VA tried, when there is one, brackets the search (wire sizes step by about
+    /// 12 % in area, so J to 2 % finds the same wires).
     fn trial(&mut self, va: f64) -> Trial {
-        // Does anything fit at all (the thinnest wires)?
-        let p_hi = self.plan_at(va, J_RANGE.1);
-        if !flux_ok(&p_hi) {
-            return Trial {
-                ok: false,
-                limit: Limit::FluxTurns,
-                plan: Some(p_hi),
-                j: J_RANGE.1,
-            };
-        }
-        if !p_hi.window.fits {
-            return Trial {
-                ok: false,
-                limit: Limit::Window,
-                plan: Some(p_hi),
-                j: J_RANGE.1,
-            };
-        }
-        let (mut lo, mut hi) = (J_RANGE.0, J_RANGE.1);
-        let mut best = p_hi;
-        let mut done = false;
-        if let Some(h) = self.j_hint {
-            let (a, b) = ((h / 1.3).max(J_RANGE.0), (h * 1.3).min(J_RANGE.1));
-            let pb = self.plan_at(va, b);
-            if pb.window.fits {
-                let pa = self.plan_at(va, a);
-                if pa.window.fits {
-                    if a <= J_RANGE.0 {
-                        best = pa;
-                        hi = a;
-                        done = true;
-                    } else {
-                        hi = a;
-                        best = pa;
-                    }
-                } else {
-                    lo = a;
+        const STEP: f64 = 1.15;
+        let (mut lo, mut hi);
+        let mut best;
+        match self.j_hint {
+            Some(h) => {
+                let b = (h * STEP).min(J_RANGE.1);
+                let pb = self.plan_at(va, b);
+                if !flux_ok(&pb) {
+                    return Trial {
+                        ok: false,
+                        limit: Limit::FluxTurns,
+                        plan: Some(pb),
+                        j: b,
+                    };
+                }
+                if pb.window.fits {
                     hi = b;
                     best = pb;
-                }
-            } else {
-                lo = b;
-            }
-        }
-        if !done {
-            let p_lo = self.plan_at(va, lo);
-            if p_lo.window.fits {
-                best = p_lo;
-                hi = lo;
-            } else {
-                while hi / lo > 1.0 + J_TOL {
-                    let mid = (lo * hi).sqrt();
-                    let p = self.plan_at(va, mid);
-                    if p.window.fits {
-                        hi = mid;
-                        best = p;
-                    } else {
-                        lo = mid;
+                    let mut a = h / STEP;
+                    loop {
+                        let a_c = a.max(J_RANGE.0);
+                        let pa = self.plan_at(va, a_c);
+                        if pa.window.fits {
+                            hi = a_c;
+                            best = pa;
+                            if a_c <= J_RANGE.0 {
+                                lo = a_c;
+                                break;
+                            }
+                            a /= STEP * STEP;
+                        } else {
+                            lo = a_c;
+                            break;
+                        }
+                    }
+                } else {
+                    lo = b;
+                    let mut up = b;
+                    loop {
+                        up = (up * STEP * STEP).min(J_RANGE.1);
+                        let pu = self.plan_at(va, up);
+                        if !flux_ok(&pu) {
+                            return Trial {
+                                ok: false,
+                                limit: Limit::FluxTurns,
+                                plan: Some(pu),
+                                j: up,
+                            };
+                        }
+                        if pu.window.fits {
+                            hi = up;
+                            best = pu;
+                            break;
+                        }
+                        lo = up;
+                        if up >= J_RANGE.1 {
+                            return Trial {
+                                ok: false,
+                                limit: Limit::Window,
+                                plan: Some(pu),
+                                j: up,
+                            };
+                        }
                     }
                 }
+            }
+            None => {
+                // Does anything fit at all (the thinnest wires)?
+                let p_hi = self.plan_at(va, J_RANGE.1);
+                if !flux_ok(&p_hi) {
+                    return Trial {
+                        ok: false,
+                        limit: Limit::FluxTurns,
+                        plan: Some(p_hi),
+                        j: J_RANGE.1,
+                    };
+                }
+                if !p_hi.window.fits {
+                    return Trial {
+                        ok: false,
+                        limit: Limit::Window,
+                        plan: Some(p_hi),
+                        j: J_RANGE.1,
+                    };
+                }
+                hi = J_RANGE.1;
+                best = p_hi;
+                lo = J_RANGE.0;
+                let p_lo = self.plan_at(va, lo);
+                if p_lo.window.fits {
+                    best = p_lo;
+                    hi = lo;
+                }
+            }
+        }
+        while hi / lo > 1.0 + J_TOL {
+            let mid = (lo * hi).sqrt();
+            let p = self.plan_at(va, mid);
+            if p.window.fits {
+                hi = mid;
+                best = p;
+            } else {
+                lo = mid;
             }
         }
         self.j_hint = Some(hi);
@@ -607,7 +651,7 @@ mod tests {
             let c = capacity(&job);
             assert!(c.max_va > 0.0, "{}", job.name);
             // At capacity, with the wire chosen there, the full plan fits and stays within the rise.
-            let p = plan(&at(&job, c.max_va, c.current_density_a_mm2));
+            let p = crate::plan::plan(&at(&job, c.max_va, c.current_density_a_mm2));
             assert!(p.window.fits, "{}: fits at capacity", job.name);
             assert!(
                 p.thermal.rise_c <= job.max_rise_c * (1.0 + 1e-9),

@@ -17,6 +17,8 @@ pub mod magnetics;
 pub mod plan;
 pub mod probe;
 pub mod render;
+pub mod shelf;
+pub mod store;
 pub mod units;
 pub mod wire;
 

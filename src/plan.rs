@@ -238,7 +238,7 @@ pub struct Plan {
     /// Warnings.
     pub warnings: Vec<String>,
     /// Cautions.
-    pub cautions: Vec<String>,
+    pub cautions: &'static [&'static str],
     /// The current density limit, A/mm².
     pub current_density_limit_a_mm2: f64,
     /// Layout settings used.
@@ -292,6 +292,22 @@ struct State {
 
 /// Plans a job. Never fails on a checked job: a design that does not work is a verdict.
 pub fn plan(job: &Job) -> Plan {
+    plan_with(job, true)
+}
+
+/// Plans a job for a search (capacity, shelf ranking): every number and check as [`plan`], without
+/// the words — check details and warnings are left empty, which is most of a plan's cost.
+pub fn plan_lean(job: &Job) -> Plan {
+    plan_with(job, false)
+}
+
+fn plan_with(job: &Job, words: bool) -> Plan {
+    // Formats only when the plan is for a person.
+    macro_rules! say {
+        ($($t:tt)*) => {
+            if words { format!($($t)*) } else { String::new() }
+        };
+    }
     let g = geometry(&job.core);
     let ae = g.area_net_mm2;
     let f = job.frequency_hz;
@@ -323,7 +339,7 @@ pub fn plan(job: &Job) -> Plan {
     }
     let (design_flux, source) = match (job.flux_density_t, recommended) {
         (Some(b), Some(rec)) if b > rec => {
-            warnings.push(format!(
+            warnings.push(say!(
                 "the given flux {b:.2} T is above the sweep's recommended {rec:.2} T (0.9 × the IEC knee): kept as given, expect a high idle current"
             ));
             (
@@ -638,14 +654,14 @@ pub fn plan(job: &Job) -> Plan {
     if let (Some(rep), Some(knee)) = (&sweep_rep, sweep_rep.as_ref().and_then(|r| r.knee_flux_t)) {
         let rec = rep.recommended_flux_t.unwrap_or(knee);
         if flux > rec * (1.0 + 1e-9) {
-            warnings.push(format!(
+            warnings.push(say!(
                 "planned flux {flux:.2} T is above the knee margin {rec:.2} T (0.9 × the IEC knee {knee:.2} T): the idle current will be high and the core may saturate"
             ));
         }
     }
     if let (Some((_, r)), None) = (&test, kept_idx) {
         if flux > r.donor_flux_t * (1.0 + 1e-9) {
-            warnings.push(format!(
+            warnings.push(say!(
                 "planned flux {flux:.2} T is above the {:.2} T the donor ran at",
                 r.donor_flux_t
             ));
@@ -674,20 +690,20 @@ pub fn plan(job: &Job) -> Plan {
             .and_then(|s| s.recommended_flux_t)
             .is_some();
         if !knee_known && ratio > 1.0 + 1e-9 {
-            warnings.push(format!(
+            warnings.push(say!(
                 "the core runs at {ratio:.2} × the flux the donor was built for and no sweep shows the knee margin: sweep the kept winding before relying on it"
             ));
         }
         kept_note = Some(note);
     }
     if lay.copper_fill > HAND_FILL_LIMIT {
-        warnings.push(format!(
+        warnings.push(say!(
             "copper fill {:.2} is above {HAND_FILL_LIMIT:.2} (McLyman's window utilisation): hard to wind by hand",
             lay.copper_fill
         ));
     }
     if st.primary_amps > HIGH_CURRENT_A {
-        warnings.push(format!(
+        warnings.push(say!(
             "the primary draws {:.0} A at full load: use parallel strands or strip, and thick, short leads",
             st.primary_amps
         ));
@@ -700,9 +716,10 @@ pub fn plan(job: &Job) -> Plan {
             && matches!(w.wire.conductor, Conductor::Round(_))
             && w.wire.strands > 8
         {
-            warnings.push(format!(
+            warnings.push(say!(
                 "\"{}\" needs {} strands in hand: consider strip conductor (strip_mm)",
-                w.name, w.wire.strands
+                w.name,
+                w.wire.strands
             ));
         }
     }
@@ -712,7 +729,7 @@ pub fn plan(job: &Job) -> Plan {
     checks.push(Check {
         name: "flux".to_string(),
         ok: flux <= flux_limit * (1.0 + 1e-9),
-        detail: format!("{flux:.3} T peak, limit {flux_limit:.2} T ({source})"),
+        detail: say!("{flux:.3} T peak, limit {flux_limit:.2} T ({source})"),
     });
     checks.push(Check {
         name: "window".to_string(),
@@ -720,16 +737,18 @@ pub fn plan(job: &Job) -> Plan {
         detail: if lay.coils.iter().any(|c| c.turns_per_layer == 0) {
             "a winding cannot get a single turn on a layer".to_string()
         } else {
-            format!(
+            say!(
                 "build {:.2} mm of {:.2} mm available; copper fill {:.2}",
-                lay.build_mm, lay.available_mm, lay.copper_fill
+                lay.build_mm,
+                lay.available_mm,
+                lay.copper_fill
             )
         },
     });
     checks.push(Check {
         name: "heating".to_string(),
         ok: rise <= job.max_rise_c * (1.0 + 1e-9),
-        detail: format!("rise {rise:.1} °C, limit {:.0} °C", job.max_rise_c),
+        detail: say!("rise {rise:.1} °C, limit {:.0} °C", job.max_rise_c),
     });
     let worst_j = windings
         .iter()
@@ -739,16 +758,18 @@ pub fn plan(job: &Job) -> Plan {
     checks.push(Check {
         name: "current density".to_string(),
         ok: worst_j.0 <= job.current_density_a_mm2 * (1.0 + 1e-9),
-        detail: format!(
+        detail: say!(
             "highest {:.2} A/mm² (\"{}\"), limit {:.2} A/mm²",
-            worst_j.0, worst_j.1, job.current_density_a_mm2
+            worst_j.0,
+            worst_j.1,
+            job.current_density_a_mm2
         ),
     });
     checks.push(Check {
         name: "primary current".to_string(),
         ok: primary_ok,
         detail: if primary_ok {
-            format!("{:.2} A at full load", st.primary_amps)
+            say!("{:.2} A at full load", st.primary_amps)
         } else {
             "the primary's resistance is too high to pass the load's power".to_string()
         },
@@ -759,12 +780,14 @@ pub fn plan(job: &Job) -> Plan {
             name: format!("output {}", w.name),
             ok,
             detail: if ok {
-                format!(
+                say!(
                     "{:.2} V at {:.2} A (target {:.2} V)",
-                    w.volts_full_load, w.amps, w.volts
+                    w.volts_full_load,
+                    w.amps,
+                    w.volts
                 )
             } else {
-                format!(
+                say!(
                     "{:.2} V at {:.2} A, short of {:.2} V; the most it can deliver is {:.2} V",
                     w.volts_full_load,
                     w.amps,
@@ -830,7 +853,7 @@ pub fn plan(job: &Job) -> Plan {
         probe,
         verdict: Verdict { ok, checks },
         warnings,
-        cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
+        cautions: CAUTIONS,
         current_density_limit_a_mm2: job.current_density_a_mm2,
         settings: job.settings_layout(),
         lead_m: job.lead_m,

@@ -76,8 +76,8 @@ pub struct RoundSize {
 /// A conductor as wound: round wire or strip.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Conductor {
-    /// Round enamelled wire.
-    Round(RoundSize),
+    /// Round enamelled wire: a row of the embedded tables.
+    Round(&'static RoundSize),
     /// Rectangular strip: width along the traverse, thickness in the build direction.
     Strip {
         /// Bare width, mm.
@@ -234,7 +234,7 @@ fn format_metric(d: f64) -> String {
 }
 
 /// Finds a size by its label: `"1.60"`, `"1.6"`, `"1.6 mm"`, `"AWG 14"`, `"14 AWG"`, `"#14"`.
-pub fn find_size(label: &str, grade: Grade) -> Result<RoundSize, String> {
+pub fn find_size(label: &str, grade: Grade) -> Result<&'static RoundSize, String> {
     let t = label.trim().to_ascii_lowercase();
     let awg_part = t
         .strip_prefix("awg")
@@ -248,7 +248,6 @@ pub fn find_size(label: &str, grade: Grade) -> Result<RoundSize, String> {
         return sizes(System::Awg, grade)
             .iter()
             .find(|s| s.size == gauge.to_string())
-            .cloned()
             .ok_or_else(|| format!("AWG {gauge} is not in the table (AWG 4 to 40)"));
     }
     let d: f64 = t.trim_end_matches("mm").trim().parse().map_err(|_| {
@@ -259,7 +258,6 @@ pub fn find_size(label: &str, grade: Grade) -> Result<RoundSize, String> {
     sizes(System::Metric, grade)
         .iter()
         .find(|s| (s.bare_mm - d).abs() < 1e-6)
-        .cloned()
         .ok_or_else(|| {
             format!("{d} mm is not an ISO 3 R20 nominal diameter from 0.100 to 4.00 mm (e.g. 1.50 is not; 1.40 and 1.60 are)")
         })
@@ -269,7 +267,7 @@ pub fn find_size(label: &str, grade: Grade) -> Result<RoundSize, String> {
 #[derive(Debug, Clone, PartialEq, Default)]
 pub struct WireRequest {
     /// A forced round size.
-    pub size: Option<RoundSize>,
+    pub size: Option<&'static RoundSize>,
     /// A forced strand count.
     pub strands: Option<u32>,
     /// A strip conductor (width, thickness) in mm.
@@ -320,12 +318,12 @@ pub fn choose(
             strands,
         };
     }
-    if let Some(size) = &req.size {
+    if let Some(size) = req.size {
         let strands = req
             .strands
             .unwrap_or_else(|| ((need / size.area_mm2 - 1e-9).ceil() as u32).max(1));
         return WireChoice {
-            conductor: Conductor::Round(size.clone()),
+            conductor: Conductor::Round(size),
             strands,
         };
     }
@@ -339,8 +337,7 @@ pub fn choose(
     let size = table
         .iter()
         .find(|s| s.area_mm2 >= per * (1.0 - 1e-12))
-        .or_else(|| table.last())
-        .cloned();
+        .or_else(|| table.last());
     match size {
         Some(size) => {
             // The thickest size falls short only with forced strands: add strands to carry it.

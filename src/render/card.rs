@@ -367,7 +367,7 @@ pub fn text_card(p: &Plan, o: &CardOptions) -> String {
     }
     s += &bold("CAUTIONS");
     s += "\n";
-    for c in &p.cautions {
+    for c in p.cautions {
         s += &wrap(c, WIDTH, "  * ", "    ");
     }
     s += &rule;
@@ -474,7 +474,7 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
         let _ = writeln!(s, "> {w}\n");
     }
     let _ = writeln!(s, "## Cautions\n");
-    for c in &p.cautions {
+    for c in p.cautions {
         let _ = writeln!(s, "- {c}");
     }
     s
@@ -909,7 +909,7 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
         s += "</ul>";
     }
     s += "<h3>Cautions</h3><ul class=\"cautions\">";
-    for c in &p.cautions {
+    for c in p.cautions {
         let _ = write!(s, "<li>{}</li>", esc(c));
     }
     s += "</ul></div>";

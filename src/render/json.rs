@@ -37,7 +37,7 @@ pub struct PlanJson<'a> {
     /// Warnings.
     pub warnings: &'a [String],
     /// Cautions.
-    pub cautions: &'a [String],
+    pub cautions: &'a [&'a str],
 }
 
 /// Core keys.
@@ -454,7 +454,7 @@ pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
                 .collect(),
         },
         warnings: &plan.warnings,
-        cautions: &plan.cautions,
+        cautions: plan.cautions,
     }
 }
 

@@ -304,7 +304,7 @@ pub fn warnings_and_verdict(plan: &Plan, cs: Charset) -> String {
     }
     s += &table(rows, 99, cs);
     s += "\nCautions\n";
-    for c in &plan.cautions {
+    for c in plan.cautions {
         s += &format!("  * {c}\n");
     }
     s

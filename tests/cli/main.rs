@@ -9,4 +9,5 @@ mod input_errors;
 mod plan_cmd;
 mod probe_cmd;
 mod rate_cmd;
+mod shelf_cmd;
 mod wire_cmd;

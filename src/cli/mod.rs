@@ -14,8 +14,10 @@ use clap::{Parser, Subcommand, ValueEnum};
 use std::io::{IsTerminal, Read, Write};
 use std::path::{Path, PathBuf};
 
+mod shelf_cmd;
+
 /// The bundled demo job.
-pub const DEMO_JOB: &str = include_str!("../examples/garage_charger.toml");
+pub const DEMO_JOB: &str = include_str!("../../examples/garage_charger.toml");
 
 /// Largest text file read (job, sweep, shelf import), bytes.
 pub const MAX_READ_BYTES: u64 = 16 << 20;
@@ -241,6 +243,11 @@ enum Command {
         #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
         format: SimpleFormat,
     },
+    /// The shelf of measured donor cores: add, list, show, edit, remove, export, import, rank
+    #[command(
+        after_help = "Examples:\n  ironwind shelf add --label \"grey core\" --tongue 38 --stack 62 --window 19x57\n  ironwind shelf list --sort area-product\n  ironwind shelf rank examples/garage_charger.toml --top 5\n\nThe shelf is one CSV file: --shelf FILE, else $IRONWIND_SHELF, else $XDG_DATA_HOME/ironwind/shelf.csv."
+    )]
+    Shelf(shelf_cmd::ShelfArgs),
     /// Plan the bundled example job end to end (no files needed)
     #[command(after_help = "Example:\n  ironwind demo\n  ironwind demo --format json")]
     Demo {
@@ -281,7 +288,7 @@ enum WaveArg {
 }
 
 #[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
-enum ShapeArg {
+pub(crate) enum ShapeArg {
     Ei,
     Ui,
 }
@@ -331,7 +338,7 @@ fn broken_pipe_seen() -> bool {
 }
 
 /// Maps a write error on stdout: a closed pipe (`| head`) is not a failure.
-fn out_err(e: std::io::Error) -> Error {
+pub(crate) fn out_err(e: std::io::Error) -> Error {
     if e.kind() == std::io::ErrorKind::BrokenPipe {
         BROKEN_PIPE.with(|b| b.set(true));
     }
@@ -350,6 +357,9 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             let p = plan(&job);
             check_windable(&p, &origin)?;
             write_plan(out, &p, format, cs)?;
+        }
+        Command::Shelf(args) => {
+            return shelf_cmd::run(out, args, cs);
         }
         Command::Rate { .. } => {
             return rate_command(out, cli.command, cs);

@@ -1,0 +1,168 @@
+//! Speed figures for the README: plan cost against process start-up, the capacity search against the
+//! brute-force scan, and shelf ranking at 10 000 and 100 000 cores. Run with `cargo bench`.
+//! Figures are wall-clock on the machine at hand; `plans_evaluated` is the machine-independent cost.
+
+use ironwind::capacity::{capacity, scan};
+use ironwind::job::parse_job;
+use ironwind::plan::plan;
+use ironwind::shelf::{parse_shelf, rank, HEADER};
+use std::path::PathBuf;
+use std::process::Command;
+use std::time::Instant;
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn load(name: &str) -> ironwind::job::Job {
+    let dir = root().join("examples");
+    let text = std::fs::read_to_string(dir.join(name)).expect("example");
+    parse_job(&text, name, &|rel| {
+        let p = dir.join(rel);
+        let t = std::fs::read_to_string(&p)
+            .map_err(|e| ironwind::Error::io(p.display().to_string(), "read", &e))?;
+        Ok((
+            p.display().to_string(),
+            ironwind::probe::read_sweep("sweep", t.as_bytes())?,
+        ))
+    })
+    .expect("job")
+}
+
+fn per_run(n: usize, mut f: impl FnMut()) -> f64 {
+    let t = Instant::now();
+    for _ in 0..n {
+        f();
+    }
+    t.elapsed().as_secs_f64() / n as f64
+}
+
+fn generated_shelf(n: usize, seed: u64) -> String {
+    let mut s = seed;
+    let mut next = || {
+        s = s
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
+        ((s >> 11) as f64) / ((1u64 << 53) as f64)
+    };
+    let mut text = HEADER.join(",") + "\n";
+    for id in 1..=n {
+        let a = 15.0 + 45.0 * next();
+        let st = a * (0.8 + 1.2 * next());
+        let w = a * (0.4 + 0.4 * next());
+        let h = w * (2.5 + 1.0 * next());
+        let shape = if next() < 0.8 { "ei" } else { "ui" };
+        text += &format!(
+            "{id},core {id},{shape},{a:.2},{st:.2},{w:.2},{h:.2},0.95,unknown,,,,2026-01-01\n"
+        );
+    }
+    text
+}
+
+fn main() {
+    let bin = root().join("target/release/ironwind");
+    println!("ironwind speed figures\n");
+
+    println!("plan (library, one full plan):");
+    for name in [
+        "garage_charger.toml",
+        "cabin_inverter_24v.toml",
+        "bench_supply_120v_ui.toml",
+        "ups_donor_inverter.toml",
+    ] {
+        let job = load(name);
+        let t = per_run(20_000, || {
+            std::hint::black_box(plan(std::hint::black_box(&job)));
+        });
+        println!("  {name:<28} {:8.2} µs", t * 1e6);
+    }
+    if bin.exists() {
+        let job = root().join("examples/garage_charger.toml");
+        let plan_s = per_run(100, || {
+            let _ = Command::new(&bin)
+                .arg("plan")
+                .arg(&job)
+                .arg("--format")
+                .arg("json")
+                .output();
+        });
+        let ver_s = per_run(100, || {
+            let _ = Command::new(&bin).arg("--version").output();
+        });
+        println!(
+            "  process: `ironwind plan` {:.2} ms, `ironwind --version` {:.2} ms (ratio {:.2})",
+            plan_s * 1e3,
+            ver_s * 1e3,
+            plan_s / ver_s
+        );
+    } else {
+        println!("  (build with `cargo build --release` to time whole processes)");
+    }
+
+    println!("\nrate: capacity search against the brute-force scan");
+    for name in [
+        "garage_charger.toml",
+        "cabin_inverter_24v.toml",
+        "bench_supply_120v_ui.toml",
+        "ups_donor_inverter.toml",
+    ] {
+        let job = load(name);
+        let mut c = capacity(&job);
+        let ts = per_run(50, || c = capacity(&job));
+        let mut sc = scan(&job);
+        let tc = per_run(1, || sc = scan(&job));
+        println!(
+            "  {name:<28} search {:7.3} ms ({:>4} plans), scan {:8.1} ms ({:>6} plans): {:6.0}× faster, {:5.0}× fewer plans; {:.1} vs {:.1} VA",
+            ts * 1e3,
+            c.plans_evaluated,
+            tc * 1e3,
+            sc.plans_evaluated,
+            tc / ts,
+            sc.plans_evaluated as f64 / c.plans_evaluated as f64,
+            c.max_va,
+            sc.max_va
+        );
+    }
+
+    println!("\nshelf rank (library: parse the shelf text, plan the job on every core, sort)");
+    let job = load("garage_charger.toml");
+    let threads = std::thread::available_parallelism()
+        .map(|n| n.get())
+        .unwrap_or(1);
+    let mut times = Vec::new();
+    for n in [10_000usize, 100_000] {
+        let text = generated_shelf(n, 42);
+        let t = Instant::now();
+        let shelf = parse_shelf("generated", &text).expect("shelf");
+        let ranked = rank(&job, &shelf.entries, threads, &|_| {});
+        let e = t.elapsed().as_secs_f64();
+        times.push(e);
+        let carry = ranked.iter().filter(|r| r.carries).count();
+        println!(
+            "  {n:>7} cores on {threads} threads: {:7.1} ms ({carry} carry it)",
+            e * 1e3
+        );
+    }
+    println!("  10× the cores cost {:.2}× the time", times[1] / times[0]);
+    if bin.exists() {
+        let dir = std::env::temp_dir().join(format!("ironwind-bench-{}", std::process::id()));
+        let _ = std::fs::create_dir_all(&dir);
+        let shelf_path = dir.join("shelf.csv");
+        std::fs::write(&shelf_path, generated_shelf(100_000, 7)).expect("write shelf");
+        let t = Instant::now();
+        let out = Command::new(&bin)
+            .args(["shelf", "--shelf"])
+            .arg(&shelf_path)
+            .args(["rank"])
+            .arg(root().join("examples/garage_charger.toml"))
+            .args(["--top", "10", "--format", "json"])
+            .output()
+            .expect("rank");
+        println!(
+            "  whole command `ironwind shelf rank` on 100 000 cores: {:.0} ms (exit {})",
+            t.elapsed().as_secs_f64() * 1e3,
+            out.status.code().unwrap_or(-1)
+        );
+        let _ = std::fs::remove_dir_all(&dir);
+    }
+}

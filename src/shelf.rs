@@ -1,0 +1,756 @@
+//! The shelf: an inventory of measured donor cores, kept as one CSV file, and the ranking of its
+//! cores for a job.
+//!
+//! Measurements are kept exactly as typed ("31.50" stays "31.50", "1.25 in" keeps its unit): each
+//! cell is checked with `rust_decimal` (or the length parser for a value with a unit) and stored as
+//! its text. Reading never stops at a bad row: the good rows are returned with the bad ones listed
+//! by line, and the caller refuses to rewrite the file until they are fixed.
+//!
+//! Ranking plans the job's windings on every core (the job's own core, probe and kept windings set
+//! aside) and orders the cores that carry it by margin, then by total loss. The margin is the
+//! smaller of two headrooms read from that plan: heating, the factor the load could grow before the
+//! rise reaches its limit with the same wire (copper loss ∝ I²: √((P_allowed − P_core)/P_cu) − 1),
+//! and window, the spare build over the build used ((available − build)/build).
+
+use crate::error::{Error, Result};
+use crate::geometry::{default_leg_yoke, CoreDims, Shape};
+use crate::job::{Job, Role};
+use crate::losses::loss_for_rise_w;
+use crate::magnetics::steel_info;
+use crate::plan::plan_lean;
+use rust_decimal::prelude::ToPrimitive;
+use rust_decimal::Decimal;
+use serde::Serialize;
+use std::str::FromStr;
+
+/// The shelf file's header.
+pub const HEADER: &[&str] = &[
+    "id",
+    "label",
+    "shape",
+    "tongue_mm",
+    "stack_mm",
+    "window_width_mm",
+    "window_height_mm",
+    "stacking_factor",
+    "steel",
+    "mass_g",
+    "volts_per_turn",
+    "notes",
+    "added",
+];
+
+/// The header `shelf import` reads.
+pub const IMPORT_HEADER: &[&str] = &[
+    "label",
+    "shape",
+    "tongue_mm",
+    "stack_mm",
+    "window_width_mm",
+    "window_height_mm",
+    "stacking_factor",
+    "steel",
+    "mass_g",
+    "volts_per_turn",
+    "notes",
+];
+
+/// One core on the shelf, every measurement as typed.
+#[derive(Debug, Clone, PartialEq, Eq, Default, Serialize)]
+pub struct Entry {
+    /// Its id, unique on the shelf.
+    pub id: u64,
+    /// A person's label.
+    pub label: String,
+    /// `ei` or `ui`.
+    pub shape: String,
+    /// Tongue width as typed (mm, or with a unit).
+    pub tongue_mm: String,
+    /// Stack depth as typed.
+    pub stack_mm: String,
+    /// Window width as typed.
+    pub window_width_mm: String,
+    /// Window height as typed.
+    pub window_height_mm: String,
+    /// Stacking factor as typed.
+    pub stacking_factor: String,
+    /// Steel name.
+    pub steel: String,
+    /// Weighed mass in grams as typed (empty when not weighed).
+    pub mass_g: String,
+    /// Measured volts per turn as typed (empty when not probed).
+    pub volts_per_turn: String,
+    /// Free notes.
+    pub notes: String,
+    /// The date it was added, YYYY-MM-DD.
+    pub added: String,
+}
+
+/// An entry's values in SI and mm, for computing.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CoreValues {
+    /// The core's dimensions.
+    pub dims: CoreDims,
+    /// Steel name (checked).
+    pub steel: String,
+    /// Volts per turn, when probed.
+    pub volts_per_turn: Option<f64>,
+}
+
+/// A row that could not be read.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct BadRow {
+    /// Its line in the file.
+    pub line: u64,
+    /// Its id, when that much could be read.
+    pub id: Option<u64>,
+    /// What is wrong.
+    pub problem: String,
+}
+
+/// A shelf as read.
+#[derive(Debug, Clone, Default)]
+pub struct Shelf {
+    /// Good rows, in file order, with their values.
+    pub entries: Vec<(Entry, CoreValues)>,
+    /// Rows that could not be read.
+    pub bad: Vec<BadRow>,
+}
+
+impl Shelf {
+    /// The next free id.
+    pub fn next_id(&self) -> u64 {
+        self.entries
+            .iter()
+            .map(|(e, _)| e.id)
+            .chain(self.bad.iter().filter_map(|b| b.id))
+            .max()
+            .unwrap_or(0)
+            + 1
+    }
+}
+
+fn decimal(
+    field: &str,
+    text: &str,
+    lo: f64,
+    lo_incl: bool,
+    hi: f64,
+    unit: &str,
+) -> std::result::Result<f64, String> {
+    let t = text.trim();
+    let d =
+        Decimal::from_str(t).map_err(|_| format!("{field} = \"{t}\": must be a decimal number"))?;
+    let v = d
+        .to_f64()
+        .ok_or_else(|| format!("{field} = \"{t}\": out of range"))?;
+    let ok = if lo_incl { v >= lo } else { v > lo };
+    if ok && v <= hi {
+        Ok(v)
+    } else {
+        let op = if lo_incl { "≥" } else { ">" };
+        Err(format!(
+            "{field} = \"{t}\": must be {op} {lo} {unit} and ≤ {hi} {unit}"
+        ))
+    }
+}
+
+fn length(field: &str, text: &str) -> std::result::Result<f64, String> {
+    let t = text.trim();
+    // A bare number must be a plain decimal (no exponent, no comma); a unit goes through the parser.
+    let mm = if t
+        .bytes()
+        .all(|b| b.is_ascii_digit() || b == b'.' || b == b'-' || b == b'+')
+    {
+        decimal(field, t, 0.0, false, crate::job::MAX_CORE_MM, "mm")?
+    } else {
+        crate::units::parse_length_mm(t).map_err(|m| format!("{field} = \"{t}\": {m}"))?
+    };
+    if mm > 0.0 && mm <= crate::job::MAX_CORE_MM {
+        Ok(mm)
+    } else {
+        Err(format!("{field} = \"{t}\": must be > 0 mm and ≤ 1000 mm"))
+    }
+}
+
+fn text_cell(
+    field: &str,
+    text: &str,
+    max: usize,
+    required: bool,
+) -> std::result::Result<String, String> {
+    let t = text.trim();
+    if required && t.is_empty() {
+        return Err(format!("{field} is empty: it is required"));
+    }
+    if t.chars().count() > max {
+        return Err(format!("{field}: longer than {max} characters"));
+    }
+    if t.chars().any(|c| c.is_control()) {
+        return Err(format!("{field}: has control characters"));
+    }
+    Ok(t.to_string())
+}
+
+/// Checks an entry's cells and computes its values. Empty optional cells take the defaults
+/// (shape `ei`, stacking 0.95, steel `unknown`).
+pub fn check_entry(mut e: Entry) -> std::result::Result<(Entry, CoreValues), String> {
+    e.label = text_cell("label", &e.label, 80, true)?;
+    e.notes = text_cell("notes", &e.notes, 500, false)?;
+    e.shape = match e.shape.trim().to_ascii_lowercase().as_str() {
+        "" | "ei" => "ei".to_string(),
+        "ui" => "ui".to_string(),
+        other => return Err(format!("shape = \"{other}\": must be \"ei\" or \"ui\"")),
+    };
+    let shape = if e.shape == "ui" {
+        Shape::Ui
+    } else {
+        Shape::Ei
+    };
+    let a = length("tongue_mm", &e.tongue_mm)?;
+    let s = length("stack_mm", &e.stack_mm)?;
+    let w = length("window_width_mm", &e.window_width_mm)?;
+    let h = length("window_height_mm", &e.window_height_mm)?;
+    e.tongue_mm = e.tongue_mm.trim().to_string();
+    e.stack_mm = e.stack_mm.trim().to_string();
+    e.window_width_mm = e.window_width_mm.trim().to_string();
+    e.window_height_mm = e.window_height_mm.trim().to_string();
+    if e.stacking_factor.trim().is_empty() {
+        e.stacking_factor = "0.95".to_string();
+    }
+    e.stacking_factor = e.stacking_factor.trim().to_string();
+    let k = decimal("stacking_factor", &e.stacking_factor, 0.5, false, 1.0, "")?;
+    if e.steel.trim().is_empty() {
+        e.steel = "unknown".to_string();
+    }
+    e.steel = e.steel.trim().to_string();
+    steel_info(&e.steel).map_err(|m| format!("steel = \"{}\": {m}", e.steel))?;
+    e.mass_g = e.mass_g.trim().to_string();
+    let mass = if e.mass_g.is_empty() {
+        None
+    } else {
+        Some(decimal("mass_g", &e.mass_g, 0.0, false, 1.0e6, "g")? / 1000.0)
+    };
+    e.volts_per_turn = e.volts_per_turn.trim().to_string();
+    let vpt = if e.volts_per_turn.is_empty() {
+        None
+    } else {
+        Some(decimal(
+            "volts_per_turn",
+            &e.volts_per_turn,
+            0.0,
+            false,
+            1000.0,
+            "V",
+        )?)
+    };
+    let (c, y) = default_leg_yoke(shape, a);
+    let dims = CoreDims {
+        shape,
+        tongue_mm: a,
+        stack_mm: s,
+        window_width_mm: w,
+        window_height_mm: h,
+        stacking_factor: k,
+        outer_leg_mm: c,
+        yoke_mm: y,
+        measured_mass_kg: mass,
+    };
+    let steel = e.steel.clone();
+    Ok((
+        e,
+        CoreValues {
+            dims,
+            steel,
+            volts_per_turn: vpt,
+        },
+    ))
+}
+
+/// Reads a shelf file's text. A missing header or a header that differs is an error; bad rows are
+/// collected, never fatal.
+pub fn parse_shelf(origin: &str, text: &str) -> Result<Shelf> {
+    let mut shelf = Shelf::default();
+    if text.trim().is_empty() {
+        return Ok(shelf);
+    }
+    let mut seen = std::collections::HashSet::new();
+    let mut rdr = csv::ReaderBuilder::new()
+        .has_headers(true)
+        .flexible(true)
+        .from_reader(text.as_bytes());
+    let header = rdr
+        .headers()
+        .map_err(|e| Error::bad_input(origin, format!("line 1: {e}")))?
+        .clone();
+    let names: Vec<&str> = header
+        .iter()
+        .map(|h| h.trim_start_matches('\u{feff}'))
+        .collect();
+    if names != HEADER {
+        return Err(Error::bad_input(
+            origin,
+            format!(
+                "line 1: header is `{}`; a shelf file starts with `{}`",
+                crate::error::one_line(&names.join(",")),
+                HEADER.join(",")
+            ),
+        ));
+    }
+    for rec in rdr.records() {
+        let rec = match rec {
+            Ok(r) => r,
+            Err(e) => {
+                let line = e.position().map(|p| p.line()).unwrap_or(0);
+                shelf.bad.push(BadRow {
+                    line,
+                    id: None,
+                    problem: crate::error::one_line(&e.to_string()),
+                });
+                continue;
+            }
+        };
+        let line = rec.position().map(|p| p.line()).unwrap_or(0);
+        if rec.len() == 1 && rec.get(0).is_some_and(|c| c.trim().is_empty()) {
+            continue;
+        }
+        let id = rec
+            .get(0)
+            .and_then(|c| c.trim().parse::<u64>().ok())
+            .filter(|&i| i > 0);
+        if rec.len() != HEADER.len() {
+            shelf.bad.push(BadRow {
+                line,
+                id,
+                problem: format!("{} fields; a shelf row has {}", rec.len(), HEADER.len()),
+            });
+            continue;
+        }
+        let Some(id) = id else {
+            shelf.bad.push(BadRow {
+                line,
+                id: None,
+                problem: format!(
+                    "id = \"{}\": must be a whole number ≥ 1",
+                    rec.get(0).unwrap_or("")
+                ),
+            });
+            continue;
+        };
+        if !seen.insert(id) {
+            shelf.bad.push(BadRow {
+                line,
+                id: Some(id),
+                problem: format!("id {id} is used twice"),
+            });
+            continue;
+        }
+        let cell = |k: usize| rec.get(k).unwrap_or("").to_string();
+        let entry = Entry {
+            id,
+            label: cell(1),
+            shape: cell(2),
+            tongue_mm: cell(3),
+            stack_mm: cell(4),
+            window_width_mm: cell(5),
+            window_height_mm: cell(6),
+            stacking_factor: cell(7),
+            steel: cell(8),
+            mass_g: cell(9),
+            volts_per_turn: cell(10),
+            notes: cell(11),
+            added: cell(12),
+        };
+        match check_entry(entry) {
+            Ok(ev) => shelf.entries.push(ev),
+            Err(problem) => shelf.bad.push(BadRow {
+                line,
+                id: Some(id),
+                problem,
+            }),
+        }
+    }
+    Ok(shelf)
+}
+
+/// Neutralises a text cell a spreadsheet would run as a formula (OWASP CSV injection guidance:
+/// cells starting with `=`, `+`, `-`, `@`, tab or carriage return get a leading apostrophe).
+pub fn neutralise(cell: &str) -> String {
+    match cell.chars().next() {
+        Some('=' | '+' | '-' | '@' | '\t' | '\r') => format!("'{cell}"),
+        _ => cell.to_string(),
+    }
+}
+
+fn row(e: &Entry) -> [String; 13] {
+    [
+        e.id.to_string(),
+        e.label.clone(),
+        e.shape.clone(),
+        e.tongue_mm.clone(),
+        e.stack_mm.clone(),
+        e.window_width_mm.clone(),
+        e.window_height_mm.clone(),
+        e.stacking_factor.clone(),
+        e.steel.clone(),
+        e.mass_g.clone(),
+        e.volts_per_turn.clone(),
+        e.notes.clone(),
+        e.added.clone(),
+    ]
+}
+
+/// The shelf file's text for these entries (the storage form: cells exactly as typed).
+pub fn shelf_text(entries: &[Entry]) -> String {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    let _ = w.write_record(HEADER);
+    for e in entries {
+        let _ = w.write_record(row(e));
+    }
+    let bytes = w.into_inner().unwrap_or_default();
+    String::from_utf8(bytes).unwrap_or_default()
+}
+
+/// The export form: like the shelf file, with text cells neutralised for spreadsheets.
+pub fn export_csv(entries: &[Entry]) -> String {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    let _ = w.write_record(HEADER);
+    for e in entries {
+        let mut r = row(e);
+        for k in [1, 2, 8, 11, 12] {
+            r[k] = neutralise(&r[k]);
+        }
+        let _ = w.write_record(&r);
+    }
+    String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+}
+
+/// Reads an import file (header [`IMPORT_HEADER`]): entries without ids, or the bad rows.
+pub fn parse_import(origin: &str, text: &str) -> Result<(Vec<Entry>, Vec<BadRow>)> {
+    let mut rdr = csv::ReaderBuilder::new()
+        .has_headers(true)
+        .flexible(true)
+        .from_reader(text.as_bytes());
+    let header = rdr
+        .headers()
+        .map_err(|e| Error::bad_input(origin, format!("line 1: {e}")))?
+        .clone();
+    let names: Vec<String> = header
+        .iter()
+        .map(|h| h.trim().trim_start_matches('\u{feff}').to_string())
+        .collect();
+    if names != IMPORT_HEADER {
+        return Err(Error::bad_input(
+            origin,
+            format!(
+                "line 1: header is `{}`; expected `{}`",
+                crate::error::one_line(&names.join(",")),
+                IMPORT_HEADER.join(",")
+            ),
+        ));
+    }
+    let mut good = Vec::new();
+    let mut bad = Vec::new();
+    for rec in rdr.records() {
+        let rec = match rec {
+            Ok(r) => r,
+            Err(e) => {
+                let line = e.position().map(|p| p.line()).unwrap_or(0);
+                bad.push(BadRow {
+                    line,
+                    id: None,
+                    problem: crate::error::one_line(&e.to_string()),
+                });
+                continue;
+            }
+        };
+        let line = rec.position().map(|p| p.line()).unwrap_or(0);
+        if rec.iter().all(|c| c.trim().is_empty()) {
+            continue;
+        }
+        if rec.len() != IMPORT_HEADER.len() {
+            bad.push(BadRow {
+                line,
+                id: None,
+                problem: format!("{} fields; expected {}", rec.len(), IMPORT_HEADER.len()),
+            });
+            continue;
+        }
+        let cell = |k: usize| rec.get(k).unwrap_or("").to_string();
+        let e = Entry {
+            id: 0,
+            label: cell(0),
+            shape: cell(1),
+            tongue_mm: cell(2),
+            stack_mm: cell(3),
+            window_width_mm: cell(4),
+            window_height_mm: cell(5),
+            stacking_factor: cell(6),
+            steel: cell(7),
+            mass_g: cell(8),
+            volts_per_turn: cell(9),
+            notes: cell(10),
+            added: String::new(),
+        };
+        match check_entry(e) {
+            Ok((e, _)) => good.push(e),
+            Err(problem) => bad.push(BadRow {
+                line,
+                id: None,
+                problem,
+            }),
+        }
+    }
+    Ok((good, bad))
+}
+
+/// Today's date (UTC) as YYYY-MM-DD, from the system clock (Hinnant's civil-from-days).
+pub fn today() -> String {
+    let secs = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map(|d| d.as_secs())
+        .unwrap_or(0);
+    let z = (secs / 86_400) as i64 + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z.rem_euclid(146_097);
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let y = yoe + era * 400;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = doy - (153 * mp + 2) / 5 + 1;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 };
+    let y = if m <= 2 { y + 1 } else { y };
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
+/// One core's result for a job.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Ranked {
+    /// Shelf id.
+    pub id: u64,
+    /// Label.
+    pub label: String,
+    /// Whether every check of the plan passes.
+    pub carries: bool,
+    /// Headroom, % (negative when it does not carry).
+    pub margin_pct: f64,
+    /// What binds (when it carries) or what fails (when it does not).
+    pub limit: String,
+    /// Total loss at the job's load, W.
+    pub loss_w: f64,
+    /// Temperature rise, °C.
+    pub rise_c: f64,
+    /// Copper fill.
+    pub copper_fill: f64,
+    /// Area product, cm⁴.
+    pub area_product_cm4: f64,
+}
+
+/// The job as it is planned on a shelf core: the job's own probe and kept windings set aside.
+pub fn job_for_shelf(job: &Job) -> Job {
+    let mut j = job.clone();
+    j.probe = None;
+    for w in &mut j.windings {
+        w.kept = false;
+        w.rated_volts = None;
+        w.resistance_ohm = None;
+        w.build_mm = None;
+    }
+    j
+}
+
+/// Plans the job on one core and scores it.
+pub fn rank_one(job: &mut Job, e: &Entry, v: &CoreValues) -> Ranked {
+    job.core = v.dims.clone();
+    if let Ok(s) = steel_info(&v.steel) {
+        job.steel = s;
+    }
+    let p = plan_lean(job);
+    let t = &p.thermal;
+    let allowed = loss_for_rise_w(t.max_rise_c, t.surface_cm2 * job.cooling_factor);
+    let p_cu = p.losses.copper_w * job.load_duty;
+    let heat = if p_cu > 0.0 && allowed > p.losses.core_w {
+        ((allowed - p.losses.core_w) / p_cu).sqrt() - 1.0
+    } else if p_cu > 0.0 {
+        -1.0
+    } else {
+        f64::INFINITY
+    };
+    let window = if p.window.build_mm > 0.0 {
+        (p.window.available_mm - p.window.build_mm) / p.window.build_mm
+    } else {
+        -1.0
+    };
+    let (margin, binding) = if heat <= window {
+        (heat, "heating")
+    } else {
+        (window, "window")
+    };
+    let failed: Vec<&str> = p
+        .verdict
+        .checks
+        .iter()
+        .filter(|c| !c.ok)
+        .map(|c| c.name.as_str())
+        .collect();
+    let carries = failed.is_empty();
+    let margin_pct = if margin.is_finite() {
+        margin * 100.0
+    } else {
+        1e6
+    };
+    Ranked {
+        id: e.id,
+        label: e.label.clone(),
+        carries,
+        margin_pct: if carries {
+            margin_pct.max(0.0)
+        } else {
+            margin_pct.min(0.0)
+        },
+        limit: if carries {
+            binding.to_string()
+        } else {
+            failed.join(", ")
+        },
+        loss_w: p.losses.core_w + p.losses.copper_w,
+        rise_c: t.rise_c,
+        copper_fill: p.window.copper_fill,
+        area_product_cm4: p.geometry.area_product_cm4,
+    }
+}
+
+/// Ranks every core for the job on `threads` threads, calling `progress(done)` now and then. Cores
+/// that carry come first, by margin (largest first), then by loss (smallest first); then the rest,
+/// least short first.
+pub fn rank(
+    job: &Job,
+    entries: &[(Entry, CoreValues)],
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> Vec<Ranked> {
+    let base = job_for_shelf(job);
+    let threads = threads.clamp(1, 16);
+    let chunk = entries.len().div_ceil(threads).max(1);
+    let done = std::sync::atomic::AtomicUsize::new(0);
+    let mut out: Vec<Ranked> = std::thread::scope(|s| {
+        let handles: Vec<_> = entries
+            .chunks(chunk)
+            .map(|part| {
+                let mut j = base.clone();
+                let done = &done;
+                s.spawn(move || {
+                    let mut v = Vec::with_capacity(part.len());
+                    for (k, (e, c)) in part.iter().enumerate() {
+                        v.push(rank_one(&mut j, e, c));
+                        if k % 2048 == 2047 {
+                            let n =
+                                done.fetch_add(2048, std::sync::atomic::Ordering::Relaxed) + 2048;
+                            progress(n);
+                        }
+                    }
+                    v
+                })
+            })
+            .collect();
+        handles
+            .into_iter()
+            .flat_map(|h| h.join().unwrap_or_default())
+            .collect()
+    });
+    out.sort_by(|a, b| {
+        b.carries
+            .cmp(&a.carries)
+            .then(b.margin_pct.total_cmp(&a.margin_pct))
+            .then(a.loss_w.total_cmp(&b.loss_w))
+            .then(a.id.cmp(&b.id))
+    });
+    out
+}
+
+/// The total output VA of a job (for messages).
+pub fn job_va(job: &Job) -> f64 {
+    job.windings
+        .iter()
+        .filter(|w| w.role == Role::Secondary)
+        .map(|w| w.volts * w.amps)
+        .sum()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn entry(label: &str, t: &str) -> Entry {
+        Entry {
+            id: 1,
+            label: label.into(),
+            shape: String::new(),
+            tongue_mm: t.into(),
+            stack_mm: "40".into(),
+            window_width_mm: "16".into(),
+            window_height_mm: "48".into(),
+            stacking_factor: String::new(),
+            steel: String::new(),
+            mass_g: String::new(),
+            volts_per_turn: String::new(),
+            notes: String::new(),
+            added: String::new(),
+        }
+    }
+
+    #[test]
+    fn exact_decimals_round_trip() {
+        let (e, v) = check_entry(entry("a", "31.50")).expect("good");
+        assert_eq!(e.tongue_mm, "31.50");
+        assert_eq!(v.dims.tongue_mm, 31.5);
+        assert_eq!(e.stacking_factor, "0.95");
+        let text = shelf_text(std::slice::from_ref(&e));
+        let back = parse_shelf("s.csv", &text).expect("parses");
+        assert_eq!(back.entries[0].0, e);
+        let (e, v) = check_entry(entry("b", "1.25 in")).expect("inches");
+        assert_eq!(e.tongue_mm, "1.25 in");
+        assert!((v.dims.tongue_mm - 31.75).abs() < 1e-12);
+    }
+
+    #[test]
+    fn bad_cells_are_named() {
+        for (t, needle) in [
+            ("abc", "tongue_mm"),
+            ("1,25", "tongue_mm"),
+            ("-3", "tongue_mm"),
+            ("NaN", "tongue_mm"),
+            ("5000", "tongue_mm"),
+        ] {
+            let err = check_entry(entry("x", t)).expect_err("bad");
+            assert!(err.contains(needle), "{err}");
+        }
+        assert!(check_entry(entry("", "30")).is_err());
+    }
+
+    #[test]
+    fn formula_cells_are_neutralised() {
+        // OWASP CSV injection: =, +, -, @, tab, carriage return.
+        for c in ["=1+1", "+1", "-1", "@SUM(A1)", "\tx", "\rx"] {
+            assert!(neutralise(c).starts_with('\''), "{c:?}");
+        }
+        assert_eq!(neutralise("grey core"), "grey core");
+    }
+
+    #[test]
+    fn bad_rows_do_not_hide_good_ones() {
+        let text = "id,label,shape,tongue_mm,stack_mm,window_width_mm,window_height_mm,stacking_factor,steel,mass_g,volts_per_turn,notes,added\n1,a,ei,30,40,15,45,0.95,unknown,,,,2026-01-01\n2,b,ei,abc,40,15,45,0.95,unknown,,,,2026-01-01\n3,c,ei,30,40,15,45\n";
+        let s = parse_shelf("s.csv", text).expect("reads");
+        assert_eq!(s.entries.len(), 1);
+        assert_eq!(s.bad.iter().map(|b| b.line).collect::<Vec<_>>(), vec![3, 4]);
+        // Ids of bad rows are not reused: row 3 (id 3) is bad but its id is taken.
+        assert_eq!(s.next_id(), 4);
+    }
+
+    #[test]
+    fn today_is_a_date() {
+        let d = today();
+        assert_eq!(d.len(), 10);
+        assert!(d.starts_with("20"));
+    }
+}

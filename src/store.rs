@@ -1,0 +1,165 @@
+//! Where the shelf lives, and how it is changed without ever being torn.
+//!
+//! Every change takes an advisory lock on a sidecar file (`<shelf>.lock`, `File::lock`), reads the
+//! shelf, writes the new text to a temporary file in the same directory, flushes and syncs it, renames
+//! it over the shelf (atomic on POSIX file systems) and syncs the directory. A crash or a kill at any
+//! moment leaves the old shelf or the new one; two processes adding at once wait for each other.
+
+use crate::error::{Error, Result};
+use crate::shelf::{parse_shelf, shelf_text, Entry, Shelf};
+use std::fs::{self, File, OpenOptions};
+use std::io::{Read, Write};
+use std::path::{Path, PathBuf};
+
+/// Largest shelf file read, bytes.
+pub const MAX_SHELF_BYTES: u64 = 1 << 30;
+
+/// The shelf file: `--shelf`, else `IRONWIND_SHELF`, else `$XDG_DATA_HOME/ironwind/shelf.csv`, else
+/// `$HOME/.local/share/ironwind/shelf.csv` (the XDG base directory default).
+pub fn locate(flag: Option<&Path>) -> Result<PathBuf> {
+    if let Some(p) = flag {
+        return Ok(p.to_path_buf());
+    }
+    if let Some(p) = std::env::var_os("IRONWIND_SHELF").filter(|v| !v.is_empty()) {
+        return Ok(PathBuf::from(p));
+    }
+    let base = std::env::var_os("XDG_DATA_HOME")
+        .filter(|v| !v.is_empty())
+        .map(PathBuf::from)
+        .or_else(|| {
+            std::env::var_os("HOME")
+                .filter(|v| !v.is_empty())
+                .map(|h| PathBuf::from(h).join(".local/share"))
+        })
+        .ok_or_else(|| {
+            Error::Failed("no shelf location: set IRONWIND_SHELF or pass --shelf FILE".into())
+        })?;
+    Ok(base.join("ironwind").join("shelf.csv"))
+}
+
+/// Reads the shelf; a missing file is an empty shelf.
+pub fn read(path: &Path) -> Result<Shelf> {
+    let name = path.display().to_string();
+    let mut f = match File::open(path) {
+        Ok(f) => f,
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => return Ok(Shelf::default()),
+        Err(e) => return Err(Error::io(&name, "cannot read the shelf", &e)),
+    };
+    if f.metadata().map(|m| m.is_dir()).unwrap_or(false) {
+        return Err(Error::bad_input(
+            &name,
+            "is a directory; the shelf is a CSV file",
+        ));
+    }
+    let mut bytes = Vec::new();
+    (&mut f)
+        .take(MAX_SHELF_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(|e| Error::io(&name, "cannot read the shelf", &e))?;
+    if bytes.len() as u64 > MAX_SHELF_BYTES {
+        return Err(Error::bad_input(
+            &name,
+            "larger than 1 GiB; not a shelf file",
+        ));
+    }
+    let text = String::from_utf8(bytes).map_err(|e| {
+        let line = e.as_bytes()[..e.utf8_error().valid_up_to()]
+            .iter()
+            .filter(|&&b| b == b'\n')
+            .count()
+            + 1;
+        Error::bad_input(&name, format!("line {line}: not UTF-8 text"))
+    })?;
+    parse_shelf(&name, &text)
+}
+
+fn lock_path(path: &Path) -> PathBuf {
+    let mut s = path.as_os_str().to_owned();
+    s.push(".lock");
+    PathBuf::from(s)
+}
+
+fn dir_of(path: &Path) -> PathBuf {
+    match path.parent() {
+        Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
+        _ => PathBuf::from("."),
+    }
+}
+
+/// Changes the shelf under the lock: `change` gets the shelf as read and returns the new entries
+/// (or an error, and nothing is written) plus a value for the caller.
+pub fn update<T>(path: &Path, change: impl FnOnce(&Shelf) -> Result<(Vec<Entry>, T)>) -> Result<T> {
+    let name = path.display().to_string();
+    let dir = dir_of(path);
+    if !dir.exists() {
+        fs::create_dir_all(&dir).map_err(|e| {
+            Error::io(
+                dir.display().to_string(),
+                "cannot create the shelf's directory",
+                &e,
+            )
+        })?;
+    }
+    let lock = OpenOptions::new()
+        .create(true)
+        .truncate(false)
+        .write(true)
+        .open(lock_path(path))
+        .map_err(|e| {
+            Error::io(
+                &name,
+                "cannot lock the shelf (is its directory writable?)",
+                &e,
+            )
+        })?;
+    lock.lock()
+        .map_err(|e| Error::io(&name, "cannot lock the shelf", &e))?;
+    let shelf = read(path)?;
+    let (entries, value) = change(&shelf)?;
+    let text = shelf_text(&entries);
+    write_atomic(path, text.as_bytes())?;
+    let _ = lock.unlock();
+    Ok(value)
+}
+
+/// Writes a file whole: temporary file in the same directory, flush, sync, rename, sync directory.
+pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<()> {
+    let name = path.display().to_string();
+    let dir = dir_of(path);
+    let base = path
+        .file_name()
+        .map(|f| f.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "shelf".into());
+    let nanos = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map(|d| d.subsec_nanos())
+        .unwrap_or(0);
+    let tmp = dir.join(format!(".{base}.tmp-{}-{nanos}", std::process::id()));
+    let result = (|| -> std::io::Result<()> {
+        let mut f = OpenOptions::new().create_new(true).write(true).open(&tmp)?;
+        f.write_all(bytes)?;
+        f.flush()?;
+        f.sync_all()?;
+        drop(f);
+        fs::rename(&tmp, path)?;
+        if let Ok(d) = File::open(&dir) {
+            let _ = d.sync_all();
+        }
+        Ok(())
+    })();
+    if let Err(e) = result {
+        let _ = fs::remove_file(&tmp);
+        return Err(Error::io(&name, "cannot write the shelf", &e));
+    }
+    // Temporary files left by a process killed mid-write (we hold the lock: none is in use).
+    if let Ok(rd) = fs::read_dir(&dir) {
+        let prefix = format!(".{base}.tmp-");
+        for e in rd.flatten() {
+            let n = e.file_name().to_string_lossy().into_owned();
+            if n.starts_with(&prefix) && e.path() != tmp {
+                let _ = fs::remove_file(e.path());
+            }
+        }
+    }
+    Ok(())
+}
