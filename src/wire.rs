@@ -169,6 +169,14 @@ pub fn awg_diameter_mm(gauge: f64) -> f64 {
     0.127 * 92f64.powf((36.0 - gauge) / 39.0)
 }
 
+/// The AWG gauge whose area is nearest (on a log scale) to `area_mm2`, for display.
+pub fn nearest_awg(area_mm2: f64) -> u32 {
+    // Area ∝ 92^(−2(n − 36)/39): n = 36 − 19.5 · log92(A / A36).
+    let a36 = round_area_mm2(awg_diameter_mm(36.0));
+    let n = 36.0 - 19.5 * (area_mm2 / a36).ln() / 92f64.ln();
+    n.round().clamp(0.0, 50.0) as u32
+}
+
 /// Area of a round conductor of diameter `d_mm`, mm².
 pub fn round_area_mm2(d_mm: f64) -> f64 {
     PI / 4.0 * d_mm * d_mm

@@ -33,6 +33,16 @@ struct Cli {
     /// Plain ASCII output (no box drawing, no symbols)
     #[arg(long, global = true)]
     ascii: bool,
+    /// Data only: no warnings, notes or progress on stderr (errors still show)
+    #[arg(long, short, global = true)]
+    quiet: bool,
+    /// Colour: auto (on a terminal, unless NO_COLOR is set), always or never
+    #[arg(long, value_enum, global = true, default_value_t = ColorArg::Auto)]
+    color: ColorArg,
+    /// Units shown first in text output: metric (mm, m) or imperial (in, ft; AWG beside metric wire).
+    /// Input accepts both always
+    #[arg(long, value_enum, global = true, default_value_t = UnitsArg::Metric)]
+    units: UnitsArg,
     #[command(subcommand)]
     command: Command,
 }
@@ -248,6 +258,18 @@ enum Command {
         after_help = "Examples:\n  ironwind shelf add --label \"grey core\" --tongue 38 --stack 62 --window 19x57\n  ironwind shelf list --sort area-product\n  ironwind shelf rank examples/garage_charger.toml --top 5\n\nThe shelf is one CSV file: --shelf FILE, else $IRONWIND_SHELF, else $XDG_DATA_HOME/ironwind/shelf.csv."
     )]
     Shelf(shelf_cmd::ShelfArgs),
+    /// Print a shell completion script (bash, zsh or fish)
+    #[command(
+        after_help = "Example:\n  ironwind completions bash > ~/.local/share/bash-completion/completions/ironwind"
+    )]
+    Completions {
+        /// The shell
+        #[arg(value_enum)]
+        shell: ShellArg,
+    },
+    /// Print the manual page (roff)
+    #[command(after_help = "Example:\n  ironwind manpage > ~/.local/share/man/man1/ironwind.1")]
+    Manpage,
     /// Plan the bundled example job end to end (no files needed)
     #[command(after_help = "Example:\n  ironwind demo\n  ironwind demo --format json")]
     Demo {
@@ -282,6 +304,26 @@ enum SimpleFormat {
 }
 
 #[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum ColorArg {
+    Auto,
+    Always,
+    Never,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum UnitsArg {
+    Metric,
+    Imperial,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum ShellArg {
+    Bash,
+    Zsh,
+    Fish,
+}
+
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
 enum WaveArg {
     Sine,
     Square,
@@ -304,12 +346,36 @@ pub fn main() -> i32 {
     let cli = match Cli::try_parse() {
         Ok(c) => c,
         Err(e) => {
-            let code = match e.kind() {
-                clap::error::ErrorKind::DisplayHelp | clap::error::ErrorKind::DisplayVersion => 0,
-                _ => 2,
+            return match e.kind() {
+                clap::error::ErrorKind::DisplayHelp
+                | clap::error::ErrorKind::DisplayVersion
+                | clap::error::ErrorKind::DisplayHelpOnMissingArgumentOrSubcommand => {
+                    let _ = e.print();
+                    if e.kind() == clap::error::ErrorKind::DisplayHelpOnMissingArgumentOrSubcommand
+                    {
+                        2
+                    } else {
+                        0
+                    }
+                }
+                _ => {
+                    // One line, like every other error: clap's message with its hints folded in.
+                    let text = e.render().to_string();
+                    let parts: Vec<&str> = text
+                        .lines()
+                        .map(str::trim)
+                        .filter(|l| {
+                            !l.is_empty()
+                                && !l.starts_with("For more information")
+                                && !l.starts_with("Usage:")
+                        })
+                        .collect();
+                    let joined = parts.join("; ");
+                    let joined = joined.strip_prefix("error: ").unwrap_or(&joined);
+                    eprintln!("error: command line: {joined} (see --help)");
+                    2
+                }
             };
-            let _ = e.print();
-            return code;
         }
     };
     let stdout = std::io::stdout();
@@ -330,7 +396,13 @@ pub fn main() -> i32 {
 }
 
 thread_local! {
+    static QUIET: std::cell::Cell<bool> = const { std::cell::Cell::new(false) };
     static BROKEN_PIPE: std::cell::Cell<bool> = const { std::cell::Cell::new(false) };
+}
+
+/// Whether `--quiet` was given: warnings and notes on stderr are left out.
+pub(crate) fn quiet() -> bool {
+    QUIET.with(|q| q.get())
 }
 
 fn broken_pipe_seen() -> bool {
@@ -351,12 +423,48 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
     } else {
         Charset::Unicode
     };
+    let no_color_env = std::env::var_os("NO_COLOR").is_some_and(|v| !v.is_empty());
+    let color = match cli.color {
+        ColorArg::Always => true,
+        ColorArg::Never => false,
+        ColorArg::Auto => stdout_is_terminal() && !no_color_env,
+    };
+    let look = render::Look {
+        charset: cs,
+        units: if cli.units == UnitsArg::Imperial {
+            render::Units::Imperial
+        } else {
+            render::Units::Metric
+        },
+        color,
+    };
+    QUIET.with(|q| q.set(cli.quiet));
     match cli.command {
+        Command::Completions { shell } => {
+            use clap::CommandFactory;
+            let mut cmd = Cli::command();
+            let sh = match shell {
+                ShellArg::Bash => clap_complete::Shell::Bash,
+                ShellArg::Zsh => clap_complete::Shell::Zsh,
+                ShellArg::Fish => clap_complete::Shell::Fish,
+            };
+            let mut buf = Vec::new();
+            clap_complete::generate(sh, &mut cmd, "ironwind", &mut buf);
+            out.write_all(&buf).map_err(out_err)?;
+        }
+        Command::Manpage => {
+            use clap::CommandFactory;
+            let mut buf = Vec::new();
+            clap_mangen::Man::new(Cli::command())
+                .render(&mut buf)
+                .map_err(|e| Error::Failed(format!("cannot render the manual page: {e}")))?;
+            out.write_all(&buf).map_err(out_err)?;
+        }
         Command::Plan { job, format } => {
             let (job, origin) = load_job(&job)?;
             let p = plan(&job);
             check_windable(&p, &origin)?;
-            write_plan(out, &p, format, cs)?;
+            write_plan(out, &p, format, look)?;
         }
         Command::Shelf(args) => {
             return shelf_cmd::run(out, args, cs);
@@ -384,9 +492,8 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             let opts = render::card::CardOptions {
                 spare: spare / 100.0,
                 ascii: cli.ascii,
-                color: output.is_none()
-                    && stdout_is_terminal()
-                    && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()),
+                color: output.is_none() && look.color,
+                units: look.units,
             };
             let text = match format {
                 CardFormat::Text => render::card::text_card(&p, &opts),
@@ -407,8 +514,8 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             if card {
                 let opts = render::card::CardOptions {
                     ascii: cli.ascii,
-                    color: stdout_is_terminal()
-                        && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()),
+                    color: look.color,
+                    units: look.units,
                     ..Default::default()
                 };
                 out.write_all(render::card::text_card(&p, &opts).as_bytes())
@@ -422,7 +529,7 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
                 )
                 .map_err(out_err)?;
             }
-            write_plan(out, &p, format, cs)?;
+            write_plan(out, &p, format, look)?;
         }
         Command::Core {
             tongue,
@@ -483,9 +590,9 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
     Ok(0)
 }
 
-fn write_plan(out: &mut dyn Write, p: &Plan, format: PlanFormat, cs: Charset) -> Result<()> {
+fn write_plan(out: &mut dyn Write, p: &Plan, format: PlanFormat, look: render::Look) -> Result<()> {
     match format {
-        PlanFormat::Text => render::text::write_plan(out, p, cs),
+        PlanFormat::Text => render::text::write_plan(out, p, look),
         PlanFormat::Json => render::json::write_plan(out, p),
         PlanFormat::Csv => render::csv::write_schedule(out, p),
     }

@@ -167,6 +167,9 @@ enum Action {
 }
 
 fn warn_bad(path: &str, bad: &[BadRow]) {
+    if super::quiet() {
+        return;
+    }
     for b in bad {
         eprintln!(
             "warning: {path}: line {}: {} (the row is skipped; fix or remove it)",
@@ -589,7 +592,7 @@ pub fn run(out: &mut dyn Write, args: ShelfArgs, cs: Charset) -> Result<i32> {
                     ),
                 ));
             }
-            for b in &bad {
+            for b in bad.iter().filter(|_| !super::quiet()) {
                 eprintln!("warning: {fname}: line {}: {} (skipped)", b.line, b.problem);
             }
             let n = good.len();
@@ -622,7 +625,8 @@ pub fn run(out: &mut dyn Write, args: ShelfArgs, cs: Charset) -> Result<i32> {
             let shelf = store::read(&path)?;
             warn_bad(&name, &shelf.bad);
             let total = shelf.entries.len();
-            let show_progress = std::io::stderr().is_terminal() && total >= 20_000;
+            let show_progress =
+                std::io::stderr().is_terminal() && total >= 20_000 && !super::quiet();
             let progress = |done: usize| {
                 if show_progress {
                     let pct = done * 100 / total.max(1);

@@ -23,6 +23,8 @@ pub struct CardOptions {
     pub ascii: bool,
     /// Bold headings with ANSI escapes (text on a terminal only).
     pub color: bool,
+    /// Units shown first.
+    pub units: super::Units,
 }
 
 impl Default for CardOptions {
@@ -31,6 +33,7 @@ impl Default for CardOptions {
             spare: 0.10,
             ascii: false,
             color: false,
+            units: super::Units::Metric,
         }
     }
 }
@@ -92,8 +95,21 @@ fn wire_text(w: &WindingPlan) -> String {
     format!("{base}, {strands}")
 }
 
-fn core_line(p: &Plan) -> String {
+fn core_line(p: &Plan, units: super::Units) -> String {
     let c = &p.core;
+    if units == super::Units::Imperial {
+        let i = |v: f64| num(v / crate::units::MM_PER_INCH, 3);
+        return format!(
+            "Core {}: tongue {} x stack {} in, window {} x {} in, Ae net {} in2, steel {}",
+            if c.shape == Shape::Ei { "E-I" } else { "U-I" },
+            i(c.tongue_mm),
+            i(c.stack_mm),
+            i(c.window_width_mm),
+            i(c.window_height_mm),
+            num(p.geometry.area_net_mm2 / 645.16, 3),
+            p.steel.name
+        );
+    }
     format!(
         "Core {}: tongue {} x stack {} mm, window {} x {} mm, Ae net {} cm2, steel {}",
         if c.shape == Shape::Ei { "E-I" } else { "U-I" },
@@ -273,7 +289,7 @@ pub fn text_card(p: &Plan, o: &CardOptions) -> String {
     s += &rule;
     s += "\n";
     s += &wrap(&format!("WINDING CARD: {}", p.name), WIDTH, "", "  ");
-    s += &wrap(&core_line(p), WIDTH, "", "  ");
+    s += &wrap(&core_line(p, o.units), WIDTH, "", "  ");
     s += &wrap(&drive_line(p), WIDTH, "", "  ");
     s += &rule;
     s += "\n";
@@ -392,7 +408,7 @@ fn buy_text(b: &BuyRow) -> String {
 pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "# Winding card: {}\n", p.name);
-    let _ = writeln!(s, "{}  \n{}\n", core_line(p), drive_line(p));
+    let _ = writeln!(s, "{}  \n{}\n", core_line(p, o.units), drive_line(p));
     let _ = writeln!(s, "Wind in this order, innermost first, every winding in the **same direction**. Mark each start lead before the first turn.\n");
     let n = p.windings.len();
     for (k, w) in p.windings.iter().enumerate() {
@@ -784,7 +800,7 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
     let _ = write!(
         s,
         "<p class=\"sub\">{}<br/>{}</p>",
-        esc(&core_line(p)),
+        esc(&core_line(p, o.units)),
         esc(&drive_line(p))
     );
     s += "<p class=\"order\">Wind innermost first, every winding in the same direction. Mark each start lead before the first turn.";

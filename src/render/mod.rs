@@ -23,6 +23,93 @@ pub enum Charset {
     Ascii,
 }
 
+/// Units for display (input always accepts both).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Units {
+    /// Millimetres and metres first.
+    #[default]
+    Metric,
+    /// Inches and feet first, millimetres beside them.
+    Imperial,
+}
+
+/// How text output looks: characters, units and colour.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct Look {
+    /// Box drawing or plain ASCII.
+    pub charset: Charset,
+    /// Units shown first.
+    pub units: Units,
+    /// ANSI colour and bold.
+    pub color: bool,
+}
+
+impl Look {
+    /// A length in mm, with `d` decimals in mm (imperial: inches first, mm beside).
+    pub fn mm(&self, v: f64, d: usize) -> String {
+        match self.units {
+            Units::Metric => format!("{} mm", num(v, d)),
+            Units::Imperial => format!(
+                "{} in ({} mm)",
+                num(v / crate::units::MM_PER_INCH, d + 2),
+                num(v, d)
+            ),
+        }
+    }
+    /// A bare length in the display unit (no unit text): mm, or inches.
+    pub fn mm_bare(&self, v: f64, d: usize) -> String {
+        match self.units {
+            Units::Metric => num(v, d),
+            Units::Imperial => num(v / crate::units::MM_PER_INCH, d + 2),
+        }
+    }
+    /// The display unit of lengths: `mm` or `in`.
+    pub fn mm_unit(&self) -> &'static str {
+        match self.units {
+            Units::Metric => "mm",
+            Units::Imperial => "in",
+        }
+    }
+    /// A length in metres (imperial: feet first).
+    pub fn m(&self, v: f64, d: usize) -> String {
+        match self.units {
+            Units::Metric => format!("{} m", num(v, d)),
+            Units::Imperial => format!("{} ft ({} m)", num(v / 0.3048, d), num(v, d)),
+        }
+    }
+    /// An area in mm² (imperial: square inches first).
+    pub fn mm2(&self, v: f64, d: usize) -> String {
+        match self.units {
+            Units::Metric => format!("{} mm²", num(v, d)),
+            Units::Imperial => format!("{} in² ({} mm²)", num(v / 645.16, 3), num(v, d)),
+        }
+    }
+    /// Wraps text in bold when colour is on.
+    pub fn bold(&self, s: &str) -> String {
+        if self.color {
+            format!("\x1b[1m{s}\x1b[0m")
+        } else {
+            s.to_string()
+        }
+    }
+    /// Green (good) or red (bad) when colour is on.
+    pub fn mark(&self, s: &str, good: bool) -> String {
+        if self.color {
+            format!("\x1b[1;{}m{s}\x1b[0m", if good { 32 } else { 31 })
+        } else {
+            s.to_string()
+        }
+    }
+    /// The finished text: ASCII-folded when asked.
+    pub fn finish(&self, s: String) -> String {
+        if self.charset == Charset::Ascii {
+            asciify(&s)
+        } else {
+            s
+        }
+    }
+}
+
 /// Builds a table from rows (the first is the header) with numbers right-aligned from `right_from`;
 /// the text ends with a newline.
 pub fn table(rows: Vec<Vec<String>>, right_from: usize, charset: Charset) -> String {

@@ -1,13 +1,15 @@
 //! The plan as text tables for a terminal.
 
-use super::{num, pairs, sig3, table, Charset};
+use super::{num, pairs, sig3, table, Charset, Look, Units};
 use crate::magnetics::Waveform;
 use crate::plan::Plan;
+use crate::wire::Conductor;
 use std::io::Write;
 
 /// Writes the whole plan as tables.
-pub fn write_plan(out: &mut dyn Write, plan: &Plan, cs: Charset) -> std::io::Result<()> {
-    let text = plan_text(plan, cs);
+pub fn write_plan(out: &mut dyn Write, plan: &Plan, look: Look) -> std::io::Result<()> {
+    let cs = look.charset;
+    let text = plan_text(plan, look);
     let text = if cs == Charset::Ascii {
         super::asciify(&text)
     } else {
@@ -17,7 +19,9 @@ pub fn write_plan(out: &mut dyn Write, plan: &Plan, cs: Charset) -> std::io::Res
 }
 
 /// The plan as one string.
-pub fn plan_text(plan: &Plan, cs: Charset) -> String {
+pub fn plan_text(plan: &Plan, look: Look) -> String {
+    let cs = look.charset;
+    let lk = &look;
     let mut s = String::new();
     let g = &plan.geometry;
     let c = &plan.core;
@@ -39,14 +43,14 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
             ),
             (
                 "tongue × stack",
-                format!("{} × {} mm", num(c.tongue_mm, 2), num(c.stack_mm, 2)),
+                format!("{} × {}", lk.mm(c.tongue_mm, 2), lk.mm(c.stack_mm, 2)),
             ),
             (
                 "window w × h",
                 format!(
-                    "{} × {} mm",
-                    num(c.window_width_mm, 2),
-                    num(c.window_height_mm, 2)
+                    "{} × {}",
+                    lk.mm(c.window_width_mm, 2),
+                    lk.mm(c.window_height_mm, 2)
                 ),
             ),
             ("stacking factor", num(c.stacking_factor, 3)),
@@ -62,20 +66,17 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
             (
                 "Ae gross / net",
                 format!(
-                    "{} / {} mm²",
-                    num(g.area_gross_mm2, 1),
-                    num(g.area_net_mm2, 1)
+                    "{} / {}",
+                    lk.mm2(g.area_gross_mm2, 1),
+                    lk.mm2(g.area_net_mm2, 1)
                 ),
             ),
-            (
-                "Aw (one window)",
-                format!("{} mm²", num(g.window_area_mm2, 1)),
-            ),
+            ("Aw (one window)", lk.mm2(g.window_area_mm2, 1)),
             (
                 "area product Ap",
                 format!("{} cm⁴", num(g.area_product_cm4, 2)),
             ),
-            ("path length le", format!("{} mm", num(g.path_length_mm, 1))),
+            ("path length le", lk.mm(g.path_length_mm, 1)),
             (
                 "core mass",
                 format!(
@@ -170,11 +171,11 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
         "turns".into(),
         "wire".into(),
         "strands".into(),
-        "OD mm".into(),
+        format!("OD {}", lk.mm_unit()),
         "A/mm²".into(),
         "turns/layer".into(),
         "layers".into(),
-        "build mm".into(),
+        format!("build {}", lk.mm_unit()),
     ]];
     for w in &plan.windings {
         rows.push(vec![
@@ -187,13 +188,13 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
             num(w.volts, 2),
             sig3(w.amps),
             w.turns.to_string(),
-            w.wire.conductor.describe(),
+            wire_label(&w.wire.conductor, lk),
             w.wire.strands.to_string(),
-            num(w.wire.conductor.build_mm(), 3),
+            lk.mm_bare(w.wire.conductor.build_mm(), 3),
             num(w.current_density_a_mm2, 2),
             w.coil.turns_per_layer.to_string(),
             w.coil.layers.to_string(),
-            num(w.coil.build_mm, 2),
+            lk.mm_bare(w.coil.build_mm, 2),
         ]);
     }
     s += &table(rows, 2, cs);
@@ -203,8 +204,12 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
     s += "\nElectrical\n";
     let mut rows = vec![vec![
         "winding".to_string(),
-        "mean turn mm".into(),
-        "length m".into(),
+        format!("mean turn {}", lk.mm_unit()),
+        if lk.units == Units::Imperial {
+            "length ft".to_string()
+        } else {
+            "length m".to_string()
+        },
         format!("R at {} °C Ω", num(plan.thermal.resistance_at_c, 0)),
         "copper W".into(),
         "no-load V".into(),
@@ -213,8 +218,12 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
     for w in &plan.windings {
         rows.push(vec![
             w.name.clone(),
-            num(w.coil.mean_turn_mm, 1),
-            num(w.length_m, 2),
+            lk.mm_bare(w.coil.mean_turn_mm, 1),
+            if lk.units == Units::Imperial {
+                num(w.length_m / 0.3048, 1)
+            } else {
+                num(w.length_m, 2)
+            },
             sig3(w.resistance_ohm),
             num(w.copper_loss_w, 2),
             num(w.volts_no_load, 2),
@@ -240,9 +249,9 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
             (
                 "build",
                 format!(
-                    "{} mm of {} mm available ({})",
-                    num(win.build_mm, 2),
-                    num(win.available_mm, 2),
+                    "{} of {} available ({})",
+                    lk.mm(win.build_mm, 2),
+                    lk.mm(win.available_mm, 2),
                     if win.fits { "fits" } else { "does not fit" }
                 ),
             ),
@@ -271,12 +280,13 @@ pub fn plan_text(plan: &Plan, cs: Charset) -> String {
         ],
         cs,
     );
-    s += &warnings_and_verdict(plan, cs);
+    s += &warnings_and_verdict(plan, look);
     s
 }
 
 /// Warnings, the verdict table and the cautions, shared by the plan and the demo.
-pub fn warnings_and_verdict(plan: &Plan, cs: Charset) -> String {
+pub fn warnings_and_verdict(plan: &Plan, look: Look) -> String {
+    let cs = look.charset;
     let mut s = String::new();
     if !plan.warnings.is_empty() {
         s += "\nWarnings\n";
@@ -286,14 +296,12 @@ pub fn warnings_and_verdict(plan: &Plan, cs: Charset) -> String {
     } else {
         s += "\n";
     }
-    s += &format!(
-        "\nVerdict: {}\n",
-        if plan.verdict.ok {
-            "every check passes"
-        } else {
-            "DOES NOT PASS"
-        }
-    );
+    let verdict = if plan.verdict.ok {
+        "every check passes"
+    } else {
+        "DOES NOT PASS"
+    };
+    s += &format!("\nVerdict: {}\n", look.mark(verdict, plan.verdict.ok));
     let mut rows = vec![vec!["check".to_string(), "result".into(), "detail".into()]];
     for c in &plan.verdict.checks {
         rows.push(vec![
@@ -308,4 +316,18 @@ pub fn warnings_and_verdict(plan: &Plan, cs: Charset) -> String {
         s += &format!("  * {c}\n");
     }
     s
+}
+
+/// The wire as a person reads it; imperial display gives the nearest AWG beside a metric size.
+pub fn wire_label(c: &Conductor, look: &Look) -> String {
+    match (c, look.units) {
+        (Conductor::Round(r), Units::Imperial) if r.system == crate::wire::System::Metric => {
+            format!(
+                "{} (≈AWG {})",
+                c.describe(),
+                crate::wire::nearest_awg(r.area_mm2)
+            )
+        }
+        _ => c.describe(),
+    }
 }

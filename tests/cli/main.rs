@@ -4,6 +4,7 @@ mod card_cmd;
 mod common;
 mod contract;
 mod core_cmd;
+mod corpus;
 mod demo;
 mod input_errors;
 mod plan_cmd;
