@@ -245,6 +245,12 @@ pub struct Plan {
     pub settings: crate::layout::LayoutSettings,
     /// Lead length per end, m.
     pub lead_m: f64,
+    /// Wire system for automatic choices.
+    pub system: crate::wire::System,
+    /// Enamel grade.
+    pub grade: crate::wire::Grade,
+    /// Thickest single strand, mm.
+    pub max_strand_mm: f64,
 }
 
 /// The smallest whole N with N·v − I·(a·N + b·N²) ≥ target, or (the best N, false) when the maximum
@@ -857,6 +863,9 @@ fn plan_with(job: &Job, words: bool) -> Plan {
         current_density_limit_a_mm2: job.current_density_a_mm2,
         settings: job.settings_layout(),
         lead_m: job.lead_m,
+        system: job.system,
+        grade: job.grade,
+        max_strand_mm: job.max_strand_mm,
     }
 }
 

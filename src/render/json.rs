@@ -30,6 +30,8 @@ pub struct PlanJson<'a> {
     pub thermal: ThermalJson,
     /// Probe results (null without a probe).
     pub probe: Option<ProbeJson>,
+    /// The settings the plan used (limits, wire, insulation), so a plan can be planned again.
+    pub settings: SettingsJson,
     /// What to buy.
     pub buy: Vec<BuyRow>,
     /// Verdict.
@@ -255,6 +257,35 @@ pub struct ProbeJson {
     pub recommended_flux_t: Option<f64>,
 }
 
+/// The settings a plan used.
+#[derive(Debug, Serialize)]
+pub struct SettingsJson {
+    /// Current density limit, A/mm².
+    pub current_density_a_mm2: f64,
+    /// Wire system for automatic choices.
+    pub system: &'static str,
+    /// Enamel grade (1 or 2).
+    pub grade: u8,
+    /// Thickest single strand, mm.
+    pub max_strand_mm: f64,
+    /// Winding pitch factor.
+    pub pitch: f64,
+    /// Bobbin wall, mm.
+    pub bobbin_wall_mm: f64,
+    /// Margin at each end of the traverse, mm.
+    pub margin_mm: f64,
+    /// Insulation between layers, mm.
+    pub interlayer_mm: f64,
+    /// Insulation between windings, mm.
+    pub between_windings_mm: f64,
+    /// Outer wrap, mm.
+    pub outer_mm: f64,
+    /// Clearance to the outer leg, mm.
+    pub clearance_mm: f64,
+    /// Lead length per end, m.
+    pub lead_m: f64,
+}
+
 /// A buy-list row.
 #[derive(Debug, Clone, Serialize)]
 pub struct BuyRow {
@@ -439,6 +470,24 @@ pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
             tangent_flux_t: p.tangent_flux_t,
             recommended_flux_t: p.recommended_flux_t,
         }),
+        settings: SettingsJson {
+            current_density_a_mm2: plan.current_density_limit_a_mm2,
+            system: plan.system.name(),
+            grade: if plan.grade == crate::wire::Grade::One {
+                1
+            } else {
+                2
+            },
+            max_strand_mm: plan.max_strand_mm,
+            pitch: plan.settings.pitch,
+            bobbin_wall_mm: plan.settings.bobbin_wall_mm,
+            margin_mm: plan.settings.margin_mm,
+            interlayer_mm: plan.settings.interlayer_mm,
+            between_windings_mm: plan.settings.between_windings_mm,
+            outer_mm: plan.settings.outer_mm,
+            clearance_mm: plan.settings.clearance_mm,
+            lead_m: plan.lead_m,
+        },
         buy: buy_list(plan, spare),
         verdict: VerdictJson {
             ok: plan.verdict.ok,

@@ -16,6 +16,7 @@ struct PlanDoc {
     losses: Losses,
     thermal: Thermal,
     probe: Option<Probe>,
+    settings: Settings,
     buy: Vec<Buy>,
     verdict: Verdict,
     warnings: Vec<String>,
@@ -150,6 +151,23 @@ struct Probe {
     knee_flux_t: Option<f64>,
     tangent_flux_t: Option<f64>,
     recommended_flux_t: Option<f64>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct Settings {
+    current_density_a_mm2: f64,
+    system: String,
+    grade: u8,
+    max_strand_mm: f64,
+    pitch: f64,
+    bobbin_wall_mm: f64,
+    margin_mm: f64,
+    interlayer_mm: f64,
+    between_windings_mm: f64,
+    outer_mm: f64,
+    clearance_mm: f64,
+    lead_m: f64,
 }
 
 #[derive(Deserialize)]
