@@ -8,8 +8,9 @@
 //!
 //! The search brackets the capacity by doubling, then bisects on VA; for each VA it bisects on
 //! log J. Wire sizes are discrete, so feasibility can dip and recover near the boundary: after the
-//! bisection the search probes a little above and resumes if it finds a feasible point there.
-//! `scan` finds the same figure by brute force (geometric steps of 0.2 %), for verification.
+//! bisection the search probes a ladder above it (0.5 % steps to +10 %, then up to twice) and
+//! resumes wherever it finds a feasible point.
+//! `scan` finds the same figure by brute force (geometric steps of 0.1 %), for verification.
 //!
 //! Beside it, two quick figures: the area-product estimate (McLyman, Transformer and Inductor Design
 //! Handbook: Ap = Pt·10⁴/(Kf·Ku·B·f·J), J = Kj·Ap^−0.12, Kj = 366 at 25 °C rise and 534 at 50 °C for
@@ -70,7 +71,6 @@ pub struct Rater {
     base_va: f64,
     /// Full plans run so far.
     pub plans: u64,
-    j_hint: Option<f64>,
 }
 
 fn flux_ok(p: &Plan) -> bool {
@@ -104,7 +104,6 @@ impl Rater {
             base_amps,
             base_va,
             plans: 0,
-            j_hint: None,
         }
     }
 
@@ -129,104 +128,34 @@ impl Rater {
         plan_lean(&self.job)
     }
 
-    /// Tries one VA: the smallest J whose wires fit, then heating and outputs at that J. The J found
-    /// at the previous VA tried, when there is one, brackets the search (wire sizes step by about
-    /// 12 % in area, so J to 2 % finds the same wires).
+    /// Tries one VA: the smallest J whose wires fit (bisection on log J from the whole range; wire
+    /// sizes step by about 12 % in area, so J to 2 % finds the same wires), then heating and
+    /// outputs at that J.
     fn trial(&mut self, va: f64) -> Trial {
-        const STEP: f64 = 1.15;
-        let (mut lo, mut hi);
-        let mut best;
-        match self.j_hint {
-            Some(h) => {
-                let b = (h * STEP).min(J_RANGE.1);
-                let pb = self.plan_at(va, b);
-                if !flux_ok(&pb) {
-                    return Trial {
-                        ok: false,
-                        limit: Limit::FluxTurns,
-                        plan: Some(pb),
-                        j: b,
-                    };
-                }
-                if pb.window.fits {
-                    hi = b;
-                    best = pb;
-                    let mut a = h / STEP;
-                    loop {
-                        let a_c = a.max(J_RANGE.0);
-                        let pa = self.plan_at(va, a_c);
-                        if pa.window.fits {
-                            hi = a_c;
-                            best = pa;
-                            if a_c <= J_RANGE.0 {
-                                lo = a_c;
-                                break;
-                            }
-                            a /= STEP * STEP;
-                        } else {
-                            lo = a_c;
-                            break;
-                        }
-                    }
-                } else {
-                    lo = b;
-                    let mut up = b;
-                    loop {
-                        up = (up * STEP * STEP).min(J_RANGE.1);
-                        let pu = self.plan_at(va, up);
-                        if !flux_ok(&pu) {
-                            return Trial {
-                                ok: false,
-                                limit: Limit::FluxTurns,
-                                plan: Some(pu),
-                                j: up,
-                            };
-                        }
-                        if pu.window.fits {
-                            hi = up;
-                            best = pu;
-                            break;
-                        }
-                        lo = up;
-                        if up >= J_RANGE.1 {
-                            return Trial {
-                                ok: false,
-                                limit: Limit::Window,
-                                plan: Some(pu),
-                                j: up,
-                            };
-                        }
-                    }
-                }
-            }
-            None => {
-                // Does anything fit at all (the thinnest wires)?
-                let p_hi = self.plan_at(va, J_RANGE.1);
-                if !flux_ok(&p_hi) {
-                    return Trial {
-                        ok: false,
-                        limit: Limit::FluxTurns,
-                        plan: Some(p_hi),
-                        j: J_RANGE.1,
-                    };
-                }
-                if !p_hi.window.fits {
-                    return Trial {
-                        ok: false,
-                        limit: Limit::Window,
-                        plan: Some(p_hi),
-                        j: J_RANGE.1,
-                    };
-                }
-                hi = J_RANGE.1;
-                best = p_hi;
-                lo = J_RANGE.0;
-                let p_lo = self.plan_at(va, lo);
-                if p_lo.window.fits {
-                    best = p_lo;
-                    hi = lo;
-                }
-            }
+        // Does anything fit at all (the thinnest wires)?
+        let p_hi = self.plan_at(va, J_RANGE.1);
+        if !flux_ok(&p_hi) {
+            return Trial {
+                ok: false,
+                limit: Limit::FluxTurns,
+                plan: Some(p_hi),
+                j: J_RANGE.1,
+            };
+        }
+        if !p_hi.window.fits {
+            return Trial {
+                ok: false,
+                limit: Limit::Window,
+                plan: Some(p_hi),
+                j: J_RANGE.1,
+            };
+        }
+        let (mut lo, mut hi) = (J_RANGE.0, J_RANGE.1);
+        let mut best = p_hi;
+        let p_lo = self.plan_at(va, lo);
+        if p_lo.window.fits {
+            best = p_lo;
+            hi = lo;
         }
         while hi / lo > 1.0 + J_TOL {
             let mid = (lo * hi).sqrt();
@@ -238,7 +167,6 @@ impl Rater {
                 lo = mid;
             }
         }
-        self.j_hint = Some(hi);
         let heat_ok = best.thermal.rise_c <= best.thermal.max_rise_c * (1.0 + 1e-9);
         let out_ok = outputs_ok(&best);
         let ok = heat_ok && out_ok && flux_ok(&best);
@@ -402,7 +330,12 @@ pub fn capacity(job: &Job) -> Capacity {
         }
         // A feasible point a little above (a wire size changing) means the boundary lies higher.
         let mut resumed = false;
-        for step in [1.01, 1.03] {
+        // Wire sizes and layers are discrete, so feasible VA can come back above a failure: probe a
+        // ladder of 0.5 % steps to +10 %, then wider steps to twice the VA.
+        let ladder = (1..=20)
+            .map(|k| 1.0 + 0.005 * k as f64)
+            .chain([1.15, 1.3, 1.6, 2.0]);
+        for step in ladder {
             let va = lo_va * step;
             let t = r.trial(va);
             if t.ok {
@@ -427,14 +360,14 @@ pub fn capacity(job: &Job) -> Capacity {
     capacity_from(&r, lo_va, lo_trial.as_ref(), hi_trial.limit, "search", job)
 }
 
-/// Finds the capacity by a dense scan: VA in geometric steps of 0.2 % from 0.1 VA up to well past
+/// Finds the capacity by a dense scan: VA in geometric steps of 0.1 % from 0.1 VA up to well past
 /// every quick estimate, each step a full trial; the largest feasible VA wins.
 pub fn scan(job: &Job) -> Capacity {
     let mut r = Rater::new(job);
     let ap = area_product_va(job, 0.9);
     let rt = rule_of_thumb_va(job.core.tongue_mm * job.core.stack_mm);
     let mut upper = (4.0 * ap).max(4.0 * rt).max(4.0 * r.base_va).max(10.0);
-    let step = 1.002f64;
+    let step = 1.001f64;
     let mut va = 0.1;
     let mut best: Option<(f64, Trial)> = None;
     let mut last_fail: Option<Trial> = None;
