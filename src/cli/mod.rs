@@ -194,9 +194,9 @@ enum Command {
         /// Current density, A/mm² (default 3.0)
         #[arg(long, default_value_t = 3.0)]
         density: f64,
-        /// Wire system
-        #[arg(long, value_enum, default_value_t = SystemArg::Metric)]
-        system: SystemArg,
+        /// Wire system (default: metric, or AWG with --units imperial)
+        #[arg(long, value_enum)]
+        system: Option<SystemArg>,
         /// Thickest single strand before going to parallel strands, mm
         #[arg(long, default_value_t = 2.0)]
         max_strand: f64,
@@ -582,6 +582,11 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             grade,
             format,
         } => {
+            let system = system.unwrap_or(if look.units == render::Units::Imperial {
+                SystemArg::Awg
+            } else {
+                SystemArg::Metric
+            });
             wire_command(
                 out, list, amps, density, system, max_strand, grade, format, cs,
             )?;

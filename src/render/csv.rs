@@ -81,7 +81,10 @@ pub fn write_schedule(out: &mut dyn Write, plan: &Plan) -> std::io::Result<()> {
             volts_no_load: p.volts_no_load,
             volts_full_load: p.volts_full_load,
         })
-        .map_err(std::io::Error::other)?;
+        .map_err(|e| match e.into_kind() {
+            csv::ErrorKind::Io(io) => io,
+            other => std::io::Error::other(format!("{other:?}")),
+        })?;
     }
     w.flush()
 }

@@ -509,7 +509,11 @@ pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
 
 /// Writes any serializable value as pretty JSON with a trailing newline.
 pub fn write_json<T: Serialize>(out: &mut dyn Write, value: &T) -> std::io::Result<()> {
-    serde_json::to_writer_pretty(&mut *out, value).map_err(std::io::Error::other)?;
+    serde_json::to_writer_pretty(&mut *out, value).map_err(|e| match e.io_error_kind() {
+        // Keep the kind, so a closed pipe stays a closed pipe.
+        Some(kind) => std::io::Error::new(kind, e),
+        None => std::io::Error::other(e),
+    })?;
     writeln!(out)
 }
 
