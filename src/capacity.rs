@@ -475,6 +475,8 @@ pub fn options(job: &Job, current: &Capacity) -> Vec<Improvement> {
         .enumerate()
         .max_by(|a, b| a.1.amps.total_cmp(&b.1.amps))
         .map(|(i, _)| i);
+    // Foil suits a winding of few turns (common practice): one turn to a layer across the traverse.
+    let heavy = heavy.filter(|&i| current.wires.get(i).is_some_and(|w| w.turns <= 40));
     if let Some(i) = heavy {
         let mut j = job.clone();
         let traverse =

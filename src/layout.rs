@@ -2,7 +2,8 @@
 //!
 //! Windings are listed innermost first (DESIGN.md):
 //! - traverse L = h − 2·flange − 2·margin (flange = bobbin wall);
-//! - turns per layer = floor(L / (n · d · pitch)), d the overall diameter (or strip width);
+//! - turns per layer = floor(L / (n · d · pitch)), d the overall diameter; strip foils in hand lie on
+//!   each other, so a strip turn takes its width and a layer n foils of thickness;
 //! - layers = ceil(N / turns per layer); build = layers·d + (layers − 1)·interlayer;
 //! - total build = wall + Σ builds + between-windings gaps + outer wrap; it fits when
 //!   total ≤ w − clearance (`ui`: each leg has w/2 of the window);
@@ -63,6 +64,8 @@ pub struct CoilInput {
     pub area_mm2: f64,
     /// A measured build that replaces the computed one (a kept winding), mm.
     pub measured_build_mm: Option<f64>,
+    /// Strands stacked in the build direction (foils of strip) rather than side by side.
+    pub stacked: bool,
 }
 
 /// One winding's place on the bobbin.
@@ -121,7 +124,12 @@ pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> La
             position += s.between_windings_mm;
         }
         let n = coil_turns(core.shape, w.turns);
-        let per_turn = w.strands as f64 * w.traverse_mm * s.pitch;
+        // Round strands lie side by side along the traverse; strip foils in hand lie on each other.
+        let (per_turn, layer_build) = if w.stacked {
+            (w.traverse_mm * s.pitch, w.strands as f64 * w.build_mm)
+        } else {
+            (w.strands as f64 * w.traverse_mm * s.pitch, w.build_mm)
+        };
         let tpl_real = if per_turn > 0.0 {
             traverse / per_turn
         } else {
@@ -135,10 +143,10 @@ pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> La
         let (layers, build, checkpoints) = if tpl == 0 {
             all_fit_layer = false;
             let layers = n.max(1);
-            (layers, layers as f64 * w.build_mm, Vec::new())
+            (layers, layers as f64 * layer_build, Vec::new())
         } else {
             let layers = n.div_ceil(tpl).max(1);
-            let build = layers as f64 * w.build_mm + (layers - 1) as f64 * s.interlayer_mm;
+            let build = layers as f64 * layer_build + (layers - 1) as f64 * s.interlayer_mm;
             let cps = (1..=layers).map(|l| (l * tpl).min(n)).collect();
             (layers, build, cps)
         };
@@ -189,6 +197,7 @@ mod tests {
             build_mm: d,
             area_mm2: crate::wire::round_area_mm2(d * 0.95),
             measured_build_mm: None,
+            stacked: false,
         }
     }
 

@@ -460,6 +460,7 @@ fn plan_with(job: &Job, words: bool) -> Plan {
                 build_mm: wire.conductor.build_mm(),
                 area_mm2: wire.conductor.area_mm2(),
                 measured_build_mm: w.build_mm,
+                stacked: matches!(wire.conductor, Conductor::Strip { .. }),
             })
             .collect();
         lay = layout(&job.core, &job.settings_layout(), &coils);
