@@ -382,6 +382,14 @@ pub fn neutralise(cell: &str) -> String {
     }
 }
 
+/// Undoes [`neutralise`]: an apostrophe before a formula character is dropped on import.
+pub fn unneutralise(cell: &str) -> String {
+    match cell.strip_prefix('\'') {
+        Some(rest) if rest.starts_with(['=', '+', '-', '@', '\t', '\r']) => rest.to_string(),
+        _ => cell.to_string(),
+    }
+}
+
 fn row(e: &Entry) -> [String; 13] {
     [
         e.id.to_string(),
@@ -439,16 +447,24 @@ pub fn parse_import(origin: &str, text: &str) -> Result<(Vec<Entry>, Vec<BadRow>
         .iter()
         .map(|h| h.trim().trim_start_matches('\u{feff}').to_string())
         .collect();
-    if names != IMPORT_HEADER {
+    // The import header, or the shelf's own (an export read back: its ids are replaced, its dates kept).
+    let full = names == HEADER;
+    if names != IMPORT_HEADER && !full {
         return Err(Error::bad_input(
             origin,
             format!(
-                "line 1: header is `{}`; expected `{}`",
+                "line 1: header is `{}`; expected `{}` (or a shelf export's header)",
                 crate::error::one_line(&names.join(",")),
                 IMPORT_HEADER.join(",")
             ),
         ));
     }
+    let width = if full {
+        HEADER.len()
+    } else {
+        IMPORT_HEADER.len()
+    };
+    let offset = usize::from(full);
     let mut good = Vec::new();
     let mut bad = Vec::new();
     for rec in rdr.records() {
@@ -468,29 +484,30 @@ pub fn parse_import(origin: &str, text: &str) -> Result<(Vec<Entry>, Vec<BadRow>
         if rec.iter().all(|c| c.trim().is_empty()) {
             continue;
         }
-        if rec.len() != IMPORT_HEADER.len() {
+        if rec.len() != width {
             bad.push(BadRow {
                 line,
                 id: None,
-                problem: format!("{} fields; expected {}", rec.len(), IMPORT_HEADER.len()),
+                problem: format!("{} fields; expected {width}", rec.len()),
             });
             continue;
         }
-        let cell = |k: usize| rec.get(k).unwrap_or("").to_string();
+        let cell = |k: usize| rec.get(k + offset).unwrap_or("").to_string();
+        let text = |k: usize| unneutralise(&cell(k));
         let e = Entry {
             id: 0,
-            label: cell(0),
-            shape: cell(1),
+            label: text(0),
+            shape: text(1),
             tongue_mm: cell(2),
             stack_mm: cell(3),
             window_width_mm: cell(4),
             window_height_mm: cell(5),
             stacking_factor: cell(6),
-            steel: cell(7),
+            steel: text(7),
             mass_g: cell(8),
             volts_per_turn: cell(9),
-            notes: cell(10),
-            added: String::new(),
+            notes: text(10),
+            added: if full { text(11) } else { String::new() },
         };
         match check_entry(e) {
             Ok((e, _)) => good.push(e),

@@ -603,11 +603,12 @@ pub fn run(out: &mut dyn Write, args: ShelfArgs, cs: Charset) -> Result<i32> {
                 let mut ids = Vec::new();
                 for (id, e) in (shelf.next_id()..).zip(good) {
                     ids.push(id);
-                    entries.push(Entry {
-                        id,
-                        added: today(),
-                        ..e
-                    });
+                    let added = if e.added.is_empty() {
+                        today()
+                    } else {
+                        e.added.clone()
+                    };
+                    entries.push(Entry { id, added, ..e });
                 }
                 Ok((entries, ids))
             })?;

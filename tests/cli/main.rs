@@ -10,5 +10,6 @@ mod input_errors;
 mod plan_cmd;
 mod probe_cmd;
 mod rate_cmd;
+mod readme;
 mod shelf_cmd;
 mod wire_cmd;

@@ -407,3 +407,36 @@ fn rank_agrees_with_planning_each_core() {
     let r = run_with(&["shelf", "--shelf", &s, "rank", &job], None, &[]);
     assert!(r.stderr.is_empty(), "{}", r.stderr);
 }
+
+#[test]
+fn an_export_imports_back_whole() {
+    let d = scratch("shelf-roundtrip");
+    let s = shelf(&d);
+    sh(
+        &s,
+        &[
+            "add",
+            "--label",
+            "=looks like a formula",
+            "--tongue",
+            "31.50",
+            "--stack",
+            "1.5 in",
+            "--window",
+            "15.75x47.25",
+            "--notes",
+            "-kept dry",
+        ],
+    )
+    .ok();
+    let csv = sh(&s, &["export", "--format", "csv"]).ok().stdout;
+    let p = write(&d, "export.csv", &csv);
+    let s2 = shelf(&scratch("shelf-roundtrip-2"));
+    sh(&s2, &["import", &p]).ok();
+    let a = sh(&s, &["list", "--format", "json"]).ok().json();
+    let b = sh(&s2, &["list", "--format", "json"]).ok().json();
+    assert_eq!(
+        a["cores"][0]["typed"], b["cores"][0]["typed"],
+        "labels, notes and decimals come back as typed"
+    );
+}
