@@ -478,14 +478,7 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             output,
             spare,
         } => {
-            if !(spare.is_finite() && (0.0..=100.0).contains(&spare)) {
-                return Err(Error::bad_value(
-                    "command line",
-                    "--spare",
-                    spare,
-                    "must be ≥ 0 % and ≤ 100 %",
-                ));
-            }
+            flag_in("--spare", spare, 0.0, true, 100.0, "%")?;
             let (job, origin) = load_job(&job)?;
             let p = plan(&job);
             check_windable(&p, &origin)?;
@@ -790,11 +783,7 @@ fn write_core(out: &mut dyn Write, d: &CoreDims, format: SimpleFormat, cs: Chars
                 ],
                 cs,
             );
-            let t = if cs == Charset::Ascii {
-                render::asciify(&t)
-            } else {
-                t
-            };
+            let t = render::fold(cs, t);
             writeln!(
                 out,
                 "{t}\nFor a rating from losses and heating, use `ironwind rate`."
@@ -925,23 +914,9 @@ fn rate_command(out: &mut dyn Write, cmd: Command, cs: Charset) -> Result<i32> {
         return Ok(0);
     };
     if let Some(p) = va {
-        if !(p.is_finite() && p > 0.0 && p <= 1e7) {
-            return Err(Error::bad_value(
-                "command line",
-                "--va",
-                p,
-                "must be > 0 VA and ≤ 10000000 VA",
-            ));
-        }
+        flag_in("--va", p, 0.0, false, 1e7, "VA")?;
     }
-    if !(duty.is_finite() && duty > 0.0 && duty <= 1.0) {
-        return Err(Error::bad_value(
-            "command line",
-            "--duty",
-            duty,
-            "must be > 0 and ≤ 1 (fraction of the time loaded)",
-        ));
-    }
+    flag_in("--duty", duty, 0.0, false, 1.0, "")?;
     let mut job = match (&job, &tongue, &stack, &window, primary) {
         (Some(path), ..) => load_job(path)?.0,
         (None, Some(t), Some(s), Some(w), Some(p)) => quick_job(
@@ -1040,11 +1015,7 @@ fn rate_command(out: &mut dyn Write, cmd: Command, cs: Charset) -> Result<i32> {
         SimpleFormat::Json => render::json::write_json(out, &doc),
         SimpleFormat::Text => {
             let s = rate_text(&doc, cs);
-            let s = if cs == Charset::Ascii {
-                render::asciify(&s)
-            } else {
-                s
-            };
+            let s = render::fold(cs, s);
             write!(out, "{s}")
         }
     }
@@ -1163,17 +1134,9 @@ struct ProbeArgs {
     plot: Option<PathBuf>,
 }
 
-fn flag_range(flag: &str, v: f64, lo: f64, hi: f64, unit: &str) -> Result<f64> {
-    if v.is_finite() && v > lo && v <= hi {
-        Ok(v)
-    } else {
-        Err(Error::bad_value(
-            "command line",
-            flag,
-            v,
-            format!("must be > {lo} {unit} and ≤ {hi} {unit}"),
-        ))
-    }
+/// Checks a flag's number: finite, above `lo` (or at it when `lo_inclusive`) and at most `hi`.
+fn flag_in(flag: &str, v: f64, lo: f64, lo_inclusive: bool, hi: f64, unit: &str) -> Result<f64> {
+    crate::job::Checker::new("command line").range(flag, v, lo, lo_inclusive, hi, unit)
 }
 
 fn probe_command(
@@ -1192,14 +1155,7 @@ fn probe_command(
         ));
     }
     let f = a.frequency;
-    if !(f.is_finite() && (1.0..=2000.0).contains(&f)) {
-        return Err(Error::bad_value(
-            "command line",
-            "--frequency",
-            f,
-            "must be ≥ 1 Hz and ≤ 2000 Hz",
-        ));
-    }
+    flag_in("--frequency", f, 1.0, true, 2000.0, "Hz")?;
     let window = a.window.clone().unwrap_or_else(|| "1x1".to_string());
     let dims = core_from_flags(&a.tongue, &a.stack, &window, a.shape, a.stacking)?;
     let mut g = geometry(&dims);
@@ -1227,8 +1183,8 @@ fn probe_command(
             }
             Some(TestWinding {
                 turns: n,
-                volts: flag_range("--test-volts", v, 0.0, 10_000.0, "V")?,
-                applied_volts: flag_range("--applied-volts", ap, 0.0, 100_000.0, "V")?,
+                volts: flag_in("--test-volts", v, 0.0, false, 10_000.0, "V")?,
+                applied_volts: flag_in("--applied-volts", ap, 0.0, false, 100_000.0, "V")?,
                 applied_to: None,
             })
         }
@@ -1270,11 +1226,7 @@ fn probe_command(
         SimpleFormat::Json => render::json::write_json(out, &run),
         SimpleFormat::Text => {
             let s = probe_text(&run, cs);
-            let s = if cs == Charset::Ascii {
-                render::asciify(&s)
-            } else {
-                s
-            };
+            let s = render::fold(cs, s);
             write!(out, "{s}")
         }
     }
@@ -1438,41 +1390,16 @@ fn wire_command(
                     ]);
                 }
                 let s = render::table(t, 1, cs);
-                let s = if cs == Charset::Ascii {
-                    render::asciify(&s)
-                } else {
-                    s
-                };
+                let s = render::fold(cs, s);
                 writeln!(out, "{s}")
             }
         }
         .map_err(out_err);
     }
     let amps = amps.unwrap_or(0.0);
-    if !(amps.is_finite() && amps > 0.0 && amps <= 10_000.0) {
-        return Err(Error::bad_value(
-            "command line",
-            "--amps",
-            amps,
-            "must be > 0 A and ≤ 10000 A",
-        ));
-    }
-    if !(density.is_finite() && (0.2..=20.0).contains(&density)) {
-        return Err(Error::bad_value(
-            "command line",
-            "--density",
-            density,
-            "must be ≥ 0.2 A/mm² and ≤ 20 A/mm²",
-        ));
-    }
-    if !(max_strand.is_finite() && (0.1..=4.0).contains(&max_strand)) {
-        return Err(Error::bad_value(
-            "command line",
-            "--max-strand",
-            max_strand,
-            "must be ≥ 0.1 mm and ≤ 4 mm",
-        ));
-    }
+    flag_in("--amps", amps, 0.0, false, 10_000.0, "A")?;
+    flag_in("--density", density, 0.2, true, 20.0, "A/mm²")?;
+    flag_in("--max-strand", max_strand, 0.1, true, 4.0, "mm")?;
     let c = choose(
         amps,
         density,
@@ -1535,11 +1462,7 @@ fn wire_command(
                 ],
                 cs,
             );
-            let s = if cs == Charset::Ascii {
-                render::asciify(&s)
-            } else {
-                s
-            };
+            let s = render::fold(cs, s);
             writeln!(out, "{s}")
         }
     }

@@ -433,11 +433,7 @@ pub fn run(out: &mut dyn Write, args: ShelfArgs, cs: Charset) -> Result<i32> {
                         ]);
                     }
                     let s = render::table(t, 5, cs);
-                    let s = if cs == Charset::Ascii {
-                        render::asciify(&s)
-                    } else {
-                        s
-                    };
+                    let s = render::fold(cs, s);
                     w(out, &format!("{s}{} cores on {name}\n", rows.len()))?;
                 }
             }
@@ -502,11 +498,7 @@ pub fn run(out: &mut dyn Write, args: ShelfArgs, cs: Charset) -> Result<i32> {
                         ],
                         cs,
                     );
-                    let s = if cs == Charset::Ascii {
-                        render::asciify(&s)
-                    } else {
-                        s
-                    };
+                    let s = render::fold(cs, s);
                     w(out, &s)?;
                 }
             }
@@ -677,11 +669,7 @@ pub fn run(out: &mut dyn Write, args: ShelfArgs, cs: Charset) -> Result<i32> {
                         ]);
                     }
                     let s = render::table(t, 99, cs);
-                    let s = if cs == Charset::Ascii {
-                        render::asciify(&s)
-                    } else {
-                        s
-                    };
+                    let s = render::fold(cs, s);
                     let carrying = ranked.iter().filter(|r| r.carries).count();
                     w(
                         out,

@@ -102,11 +102,7 @@ impl Look {
     }
     /// The finished text: ASCII-folded when asked.
     pub fn finish(&self, s: String) -> String {
-        if self.charset == Charset::Ascii {
-            asciify(&s)
-        } else {
-            s
-        }
+        fold(self.charset, s)
     }
 }
 
@@ -174,6 +170,15 @@ pub fn sig3(v: f64) -> String {
         5
     };
     num(v, d)
+}
+
+/// The text as given, or folded to ASCII for `--ascii`.
+pub fn fold(cs: Charset, s: String) -> String {
+    if cs == Charset::Ascii {
+        asciify(&s)
+    } else {
+        s
+    }
 }
 
 /// Replaces the few non-ASCII symbols ironwind prints with ASCII equivalents.

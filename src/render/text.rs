@@ -1,6 +1,6 @@
 //! The plan as text tables for a terminal.
 
-use super::{num, pairs, sig3, table, Charset, Look, Units};
+use super::{num, pairs, sig3, table, Look, Units};
 use crate::magnetics::Waveform;
 use crate::plan::Plan;
 use crate::wire::Conductor;
@@ -8,14 +8,7 @@ use std::io::Write;
 
 /// Writes the whole plan as tables.
 pub fn write_plan(out: &mut dyn Write, plan: &Plan, look: Look) -> std::io::Result<()> {
-    let cs = look.charset;
-    let text = plan_text(plan, look);
-    let text = if cs == Charset::Ascii {
-        super::asciify(&text)
-    } else {
-        text
-    };
-    out.write_all(text.as_bytes())
+    out.write_all(look.finish(plan_text(plan, look)).as_bytes())
 }
 
 /// The plan as one string.
