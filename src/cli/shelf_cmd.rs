@@ -618,8 +618,11 @@ pub fn run(out: &mut dyn Write, args: ShelfArgs, cs: Charset) -> Result<i32> {
             let shelf = store::read(&path)?;
             warn_bad(&name, &shelf.bad);
             let total = shelf.entries.len();
-            let show_progress =
-                std::io::stderr().is_terminal() && total >= 20_000 && !super::quiet();
+            // A bar for long ranks on a terminal; silent when the output is piped or redirected.
+            let show_progress = std::io::stderr().is_terminal()
+                && std::io::stdout().is_terminal()
+                && total >= 20_000
+                && !super::quiet();
             let progress = |done: usize| {
                 if show_progress {
                     let pct = done * 100 / total.max(1);
