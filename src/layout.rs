@@ -104,6 +104,18 @@ pub struct Layout {
     pub copper_fill: f64,
 }
 
+impl CoilLayout {
+    /// Fills the running turn count at the end of each layer (left empty while a plan iterates).
+    pub fn fill_checkpoints(&mut self) {
+        let (n, tpl) = (self.coil_turns, self.turns_per_layer);
+        self.checkpoints = if tpl == 0 {
+            Vec::new()
+        } else {
+            (1..=self.layers).map(|l| (l * tpl).min(n)).collect()
+        };
+    }
+}
+
 /// Turns on the first (fuller) coil of a winding.
 pub fn coil_turns(shape: Shape, turns: u32) -> u32 {
     match shape {
@@ -140,15 +152,16 @@ pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> La
         } else {
             0
         };
-        let (layers, build, checkpoints) = if tpl == 0 {
+        let (layers, build) = if tpl == 0 {
             all_fit_layer = false;
             let layers = n.max(1);
-            (layers, layers as f64 * layer_build, Vec::new())
+            (layers, layers as f64 * layer_build)
         } else {
             let layers = n.div_ceil(tpl).max(1);
-            let build = layers as f64 * layer_build + (layers - 1) as f64 * s.interlayer_mm;
-            let cps = (1..=layers).map(|l| (l * tpl).min(n)).collect();
-            (layers, build, cps)
+            (
+                layers,
+                layers as f64 * layer_build + (layers - 1) as f64 * s.interlayer_mm,
+            )
         };
         let build = w.measured_build_mm.unwrap_or(build);
         let mid = position + build / 2.0;
@@ -162,7 +175,7 @@ pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> La
             build_mm: build,
             mid_mm: mid,
             mean_turn_mm: mlt,
-            checkpoints,
+            checkpoints: Vec::new(),
         });
     }
     let total = s.bobbin_wall_mm + position + s.outer_mm;
@@ -207,7 +220,8 @@ mod tests {
         // build 3·1.0 + 2·0.05 = 3.1; MLT = 2(32 + 40) + 12 + 2π·1.55.
         let core = CoreDims::new(Shape::Ei, 32.0, 40.0, (16.0, 48.0), 0.95);
         let l = layout(&core, &LayoutSettings::default(), &[coil(100, 1.0)]);
-        let c = &l.coils[0];
+        let mut c = l.coils[0].clone();
+        c.fill_checkpoints();
         assert_eq!((c.turns_per_layer, c.layers), (42, 3));
         assert_eq!(c.checkpoints, vec![42, 84, 100]);
         assert_relative_eq!(c.build_mm, 3.1, max_relative = EXACT);

@@ -99,7 +99,7 @@ pub struct WindingPlan {
     /// Wire.
     pub wire: WireChoice,
     /// Enamel grade label (`grade 2`, `heavy build`, `strip`).
-    pub grade_label: String,
+    pub grade_label: &'static str,
     /// Current density at full load, A/mm².
     pub current_density_a_mm2: f64,
     /// Layout on the bobbin (the first leg's half-coil for `ui`).
@@ -386,8 +386,8 @@ fn plan_with(job: &Job, words: bool) -> Plan {
     }
 
     let grade_label = |w: &WireChoice| match &w.conductor {
-        Conductor::Round(r) => job.grade.label(r.system).to_string(),
-        Conductor::Strip { .. } => "strip, insulated".to_string(),
+        Conductor::Round(r) => job.grade.label(r.system),
+        Conductor::Strip { .. } => "strip, insulated",
     };
 
     let p_out_guess: f64 = job
@@ -588,7 +588,8 @@ fn plan_with(job: &Job, words: bool) -> Plan {
     for (i, w) in job.windings.iter().enumerate() {
         let n = st.turns[i];
         let wire = st.wires[i].clone();
-        let coil = lay.coils[i].clone();
+        let mut coil = lay.coils[i].clone();
+        coil.fill_checkpoints();
         let amps = if i == p_idx { st.primary_amps } else { w.amps };
         let length_m = n as f64 * coil.mean_turn_mm / 1000.0;
         let cut = length_m + 2.0 * job.lead_m;

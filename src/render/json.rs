@@ -409,7 +409,7 @@ pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
                     conductor: ConductorJson {
                         system: c.system_name(),
                         size: c.size_label(),
-                        grade: w.grade_label.clone(),
+                        grade: w.grade_label.to_string(),
                         bare_mm: c.bare_mm(),
                         overall_mm: c.build_mm(),
                         overall_width_mm: c.traverse_mm(),
