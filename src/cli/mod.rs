@@ -212,47 +212,7 @@ enum Command {
         allow_negative_numbers = true,
         after_help = "Examples:\n  ironwind probe --test-turns 10 --test-volts 2.31 --applied-volts 230 --frequency 50 --tongue 38 --stack 62\n  ironwind probe --sweep examples/ups_donor_sweep.csv --sweep-turns 511 --frequency 50 --tongue 38 --stack 50 --window 19x57 --plot sweep.svg"
     )]
-    Probe {
-        /// Turns of the test winding wound over the existing one
-        #[arg(long, requires_all = ["test_volts", "applied_volts"])]
-        test_turns: Option<u32>,
-        /// Volts read on the test winding, V RMS
-        #[arg(long, requires = "test_turns")]
-        test_volts: Option<f64>,
-        /// Volts applied to the existing winding, V RMS
-        #[arg(long, requires = "test_turns")]
-        applied_volts: Option<f64>,
-        /// Sweep CSV with header volts,amps (V RMS, A RMS)
-        #[arg(long, requires = "sweep_turns")]
-        sweep: Option<PathBuf>,
-        /// Turns of the swept winding
-        #[arg(long, requires = "sweep")]
-        sweep_turns: Option<u32>,
-        /// Frequency of the applied voltage, Hz
-        #[arg(long, default_value_t = 50.0)]
-        frequency: f64,
-        /// Tongue width, mm or with a unit
-        #[arg(long)]
-        tongue: String,
-        /// Stack depth, mm or with a unit
-        #[arg(long)]
-        stack: String,
-        /// One window, WIDTHxHEIGHT in mm, for the path length (field strength)
-        #[arg(long)]
-        window: Option<String>,
-        /// Lamination shape
-        #[arg(long, value_enum, default_value_t = ShapeArg::Ei)]
-        shape: ShapeArg,
-        /// Stacking factor, > 0.5 and ≤ 1
-        #[arg(long, default_value_t = 0.95)]
-        stacking: f64,
-        /// Write the sweep as an SVG chart to this file
-        #[arg(long, requires = "sweep")]
-        plot: Option<PathBuf>,
-        /// Output format
-        #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
-        format: SimpleFormat,
-    },
+    Probe(ProbeArgs),
     /// The shelf of measured donor cores: add, list, show, edit, remove, export, import, rank
     #[command(
         after_help = "Examples:\n  ironwind shelf add --label \"grey core\" --tongue 38 --stack 62 --window 19x57\n  ironwind shelf list --sort area-product\n  ironwind shelf rank examples/garage_charger.toml --top 5\n\nThe shelf is one CSV file: --shelf FILE, else $IRONWIND_SHELF, else $XDG_DATA_HOME/ironwind/shelf.csv."
@@ -535,36 +495,8 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             let dims = core_from_flags(&tongue, &stack, &window, shape, stacking)?;
             write_core(out, &dims, format, cs)?;
         }
-        Command::Probe {
-            test_turns,
-            test_volts,
-            applied_volts,
-            sweep,
-            sweep_turns,
-            frequency,
-            tongue,
-            stack,
-            window,
-            shape,
-            stacking,
-            plot,
-            format,
-        } => {
-            let args = ProbeArgs {
-                test_turns,
-                test_volts,
-                applied_volts,
-                sweep,
-                sweep_turns,
-                frequency,
-                tongue,
-                stack,
-                window,
-                shape,
-                stacking,
-                plot,
-            };
-            probe_command(out, args, format, cs)?;
+        Command::Probe(args) => {
+            probe_command(out, args, cs)?;
         }
         Command::Wire {
             list,
@@ -1119,19 +1051,48 @@ fn rate_text(d: &RateJson, cs: Charset) -> String {
     s
 }
 
-struct ProbeArgs {
+/// Arguments of `ironwind probe`.
+#[derive(Debug, clap::Args)]
+pub(crate) struct ProbeArgs {
+    /// Turns of the test winding wound over the existing one
+    #[arg(long, requires_all = ["test_volts", "applied_volts"])]
     test_turns: Option<u32>,
+    /// Volts read on the test winding, V RMS
+    #[arg(long, requires = "test_turns")]
     test_volts: Option<f64>,
+    /// Volts applied to the existing winding, V RMS
+    #[arg(long, requires = "test_turns")]
     applied_volts: Option<f64>,
+    /// Sweep CSV with header volts,amps (V RMS, A RMS)
+    #[arg(long, requires = "sweep_turns")]
     sweep: Option<PathBuf>,
+    /// Turns of the swept winding
+    #[arg(long, requires = "sweep")]
     sweep_turns: Option<u32>,
+    /// Frequency of the applied voltage, Hz
+    #[arg(long, default_value_t = 50.0)]
     frequency: f64,
+    /// Tongue width, mm or with a unit
+    #[arg(long)]
     tongue: String,
+    /// Stack depth, mm or with a unit
+    #[arg(long)]
     stack: String,
+    /// One window, WIDTHxHEIGHT in mm, for the path length (field strength)
+    #[arg(long)]
     window: Option<String>,
+    /// Lamination shape
+    #[arg(long, value_enum, default_value_t = ShapeArg::Ei)]
     shape: ShapeArg,
+    /// Stacking factor, > 0.5 and ≤ 1
+    #[arg(long, default_value_t = 0.95)]
     stacking: f64,
+    /// Write the sweep as an SVG chart to this file
+    #[arg(long, requires = "sweep")]
     plot: Option<PathBuf>,
+    /// Output format
+    #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
+    format: SimpleFormat,
 }
 
 /// Checks a flag's number: finite, above `lo` (or at it when `lo_inclusive`) and at most `hi`.
@@ -1139,13 +1100,9 @@ fn flag_in(flag: &str, v: f64, lo: f64, lo_inclusive: bool, hi: f64, unit: &str)
     crate::job::Checker::new("command line").range(flag, v, lo, lo_inclusive, hi, unit)
 }
 
-fn probe_command(
-    out: &mut dyn Write,
-    a: ProbeArgs,
-    format: SimpleFormat,
-    cs: Charset,
-) -> Result<()> {
+fn probe_command(out: &mut dyn Write, a: ProbeArgs, cs: Charset) -> Result<()> {
     use crate::probe::{probe_run, sweep_plot, TestWinding};
+    let format = a.format;
     if a.test_turns.is_none() && a.sweep.is_none() {
         return Err(Error::bad_value(
             "command line",
