@@ -90,70 +90,7 @@ enum Command {
         allow_negative_numbers = true,
         after_help = "Examples:\n  ironwind rate examples/garage_charger.toml\n  ironwind rate examples/garage_charger.toml --va 250 --format json\n  ironwind rate --tongue 38 --stack 62 --window 19x57 --frequency 50 --primary 230 --output 24 --va 600\n  ironwind rate job.toml --duty 0.25 --plot capacity.svg"
     )]
-    Rate {
-        /// The job file (TOML); or describe the core and windings with the flags below
-        job: Option<PathBuf>,
-        /// Target output, VA (default: the job's own outputs)
-        #[arg(long)]
-        va: Option<f64>,
-        /// Fraction of the time the load is on (0 < duty ≤ 1), for welders and motor starts
-        #[arg(long, default_value_t = 1.0)]
-        duty: f64,
-        /// Write capacity and total loss against flux density as an SVG chart
-        #[arg(long)]
-        plot: Option<PathBuf>,
-        /// Exit with code 3 when the target is not carried
-        #[arg(long)]
-        strict: bool,
-        /// Verify by a dense brute-force scan of VA instead of the search
-        #[arg(long)]
-        scan: bool,
-        /// Tongue width, mm or with a unit (without a job file)
-        #[arg(long, conflicts_with = "job")]
-        tongue: Option<String>,
-        /// Stack depth, mm or with a unit
-        #[arg(long, conflicts_with = "job")]
-        stack: Option<String>,
-        /// One window, WIDTHxHEIGHT in mm
-        #[arg(long, conflicts_with = "job")]
-        window: Option<String>,
-        /// Lamination shape
-        #[arg(long, value_enum, default_value_t = ShapeArg::Ei)]
-        shape: ShapeArg,
-        /// Stacking factor
-        #[arg(long, default_value_t = 0.95)]
-        stacking: f64,
-        /// Steel: unknown, non-oriented, grain-oriented or a grade like M400-50A
-        #[arg(long, default_value = "unknown")]
-        steel: String,
-        /// Supply frequency, Hz
-        #[arg(long, default_value_t = 50.0)]
-        frequency: f64,
-        /// Primary volts (RMS for sine; amplitude for square)
-        #[arg(long, conflicts_with = "job")]
-        primary: Option<f64>,
-        /// Output volts RMS (repeat for more outputs; they share the load equally by VA)
-        #[arg(long, conflicts_with = "job")]
-        output: Vec<f64>,
-        /// Drive waveform of the primary
-        #[arg(long, value_enum, default_value_t = WaveArg::Sine)]
-        waveform: WaveArg,
-        /// Flux density, T (default: the steel's)
-        #[arg(long)]
-        flux: Option<f64>,
-        /// Allowed temperature rise, °C
-        #[arg(long)]
-        max_rise: Option<f64>,
-        /// Ambient temperature, °C
-        #[arg(long)]
-        ambient: Option<f64>,
-        /// Wire system
-        #[arg(long, value_enum, default_value_t = SystemArg::Metric)]
-        system: SystemArg,
-        /// Output format
-        #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
-        format: SimpleFormat,
-    },
+    Rate(RateArgs),
     /// Geometry of a measured core, with the rule-of-thumb rating
     #[command(
         allow_negative_numbers = true,
@@ -429,8 +366,8 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         Command::Shelf(args) => {
             return shelf_cmd::run(out, args, cs);
         }
-        Command::Rate { .. } => {
-            return rate_command(out, cli.command, cs);
+        Command::Rate(args) => {
+            return rate_command(out, args, cs);
         }
         Command::Card {
             job,
@@ -725,6 +662,73 @@ fn write_core(out: &mut dyn Write, d: &CoreDims, format: SimpleFormat, cs: Chars
     .map_err(out_err)
 }
 
+/// Arguments of `ironwind rate`.
+#[derive(Debug, clap::Args)]
+pub(crate) struct RateArgs {
+    /// The job file (TOML); or describe the core and windings with the flags below
+    job: Option<PathBuf>,
+    /// Target output, VA (default: the job's own outputs)
+    #[arg(long)]
+    va: Option<f64>,
+    /// Fraction of the time the load is on (0 < duty ≤ 1), for welders and motor starts
+    #[arg(long, default_value_t = 1.0)]
+    duty: f64,
+    /// Write capacity and total loss against flux density as an SVG chart
+    #[arg(long)]
+    plot: Option<PathBuf>,
+    /// Exit with code 3 when the target is not carried
+    #[arg(long)]
+    strict: bool,
+    /// Verify by a dense brute-force scan of VA instead of the search
+    #[arg(long)]
+    scan: bool,
+    /// Tongue width, mm or with a unit (without a job file)
+    #[arg(long, conflicts_with = "job")]
+    tongue: Option<String>,
+    /// Stack depth, mm or with a unit
+    #[arg(long, conflicts_with = "job")]
+    stack: Option<String>,
+    /// One window, WIDTHxHEIGHT in mm
+    #[arg(long, conflicts_with = "job")]
+    window: Option<String>,
+    /// Lamination shape
+    #[arg(long, value_enum, default_value_t = ShapeArg::Ei)]
+    shape: ShapeArg,
+    /// Stacking factor
+    #[arg(long, default_value_t = 0.95)]
+    stacking: f64,
+    /// Steel: unknown, non-oriented, grain-oriented or a grade like M400-50A
+    #[arg(long, default_value = "unknown")]
+    steel: String,
+    /// Supply frequency, Hz
+    #[arg(long, default_value_t = 50.0)]
+    frequency: f64,
+    /// Primary volts (RMS for sine; amplitude for square)
+    #[arg(long, conflicts_with = "job")]
+    primary: Option<f64>,
+    /// Output volts RMS (repeat for more outputs; they share the load equally by VA)
+    #[arg(long, conflicts_with = "job")]
+    output: Vec<f64>,
+    /// Drive waveform of the primary
+    #[arg(long, value_enum, default_value_t = WaveArg::Sine)]
+    waveform: WaveArg,
+    /// Flux density, T (default: the steel's)
+    #[arg(long)]
+    flux: Option<f64>,
+    /// Allowed temperature rise, °C
+    #[arg(long)]
+    max_rise: Option<f64>,
+    /// Ambient temperature, °C
+    #[arg(long)]
+    ambient: Option<f64>,
+    /// Wire system
+    #[arg(long, value_enum, default_value_t = SystemArg::Metric)]
+    system: SystemArg,
+    /// Output format
+    #[arg(long, value_enum, default_value_t = SimpleFormat::Text)]
+    format: SimpleFormat,
+}
+
 /// Builds a job from the quick-look flags of `rate`.
 #[allow(clippy::too_many_arguments)]
 fn quick_job(
@@ -815,11 +819,11 @@ struct RateJson<'a> {
     cautions: &'a [&'a str],
 }
 
-fn rate_command(out: &mut dyn Write, cmd: Command, cs: Charset) -> Result<i32> {
+fn rate_command(out: &mut dyn Write, args: RateArgs, cs: Charset) -> Result<i32> {
     use crate::capacity::{
         capacity, flux_sweep, options, scan as scan_capacity, usable_flux_range,
     };
-    let Command::Rate {
+    let RateArgs {
         job,
         va,
         duty,
@@ -841,10 +845,7 @@ fn rate_command(out: &mut dyn Write, cmd: Command, cs: Charset) -> Result<i32> {
         ambient,
         system,
         format,
-    } = cmd
-    else {
-        return Ok(0);
-    };
+    } = args;
     if let Some(p) = va {
         flag_in("--va", p, 0.0, false, 1e7, "VA")?;
     }
