@@ -90,6 +90,8 @@ pub struct WindingPlan {
     pub role: Role,
     /// Whether the donor's winding is kept.
     pub kept: bool,
+    /// Whether its resistance was measured (a kept winding with `resistance_ohm`).
+    pub resistance_measured: bool,
     /// Target volts (amplitude for a square-driven primary).
     pub volts: f64,
     /// Full-load current, A RMS.
@@ -621,6 +623,7 @@ fn plan_with(job: &Job, words: bool) -> Plan {
             name: w.name.clone(),
             role: w.role,
             kept: w.kept,
+            resistance_measured: w.resistance_ohm.is_some(),
             volts: w.volts,
             amps,
             turns: n,

@@ -75,6 +75,12 @@ fn role_word(w: &WindingPlan) -> &'static str {
 
 fn wire_text(w: &WindingPlan) -> String {
     let c = &w.wire.conductor;
+    if w.kept && w.resistance_measured {
+        return format!(
+            "the donor's own (measured {} ohm at 20 C)",
+            sig3(w.resistance_20c_ohm)
+        );
+    }
     if w.kept {
         return format!(
             "the donor's own (taken as {} for its resistance and build)",
