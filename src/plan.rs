@@ -212,6 +212,17 @@ pub struct Verdict {
     pub checks: Vec<Check>,
 }
 
+impl Verdict {
+    /// The names of the checks that fail, in order.
+    pub fn failed(&self) -> Vec<&str> {
+        self.checks
+            .iter()
+            .filter(|c| !c.ok)
+            .map(|c| c.name.as_str())
+            .collect()
+    }
+}
+
 /// The whole plan.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Plan {

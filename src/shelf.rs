@@ -603,13 +603,7 @@ pub fn rank_one(job: &mut Job, e: &Entry, v: &CoreValues) -> Ranked {
     } else {
         (window, "window")
     };
-    let failed: Vec<&str> = p
-        .verdict
-        .checks
-        .iter()
-        .filter(|c| !c.ok)
-        .map(|c| c.name.as_str())
-        .collect();
+    let failed = p.verdict.failed();
     let carries = failed.is_empty();
     let margin_pct = if margin.is_finite() {
         margin * 100.0

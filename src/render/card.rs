@@ -225,13 +225,7 @@ fn verdict_line(p: &Plan) -> String {
             num(p.losses.efficiency * 100.0, 0)
         )
     } else {
-        let failed: Vec<&str> = p
-            .verdict
-            .checks
-            .iter()
-            .filter(|c| !c.ok)
-            .map(|c| c.name.as_str())
-            .collect();
+        let failed = p.verdict.failed();
         format!("VERDICT: DOES NOT PASS - {}", failed.join(", "))
     }
 }
