@@ -6,6 +6,7 @@ mod contract;
 mod core_cmd;
 mod corpus;
 mod demo;
+mod golden;
 mod input_errors;
 mod plan_cmd;
 mod probe_cmd;
