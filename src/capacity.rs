@@ -19,7 +19,8 @@
 use crate::geometry::rule_of_thumb_va;
 use crate::job::{Job, Role};
 use crate::magnetics::Waveform;
-use crate::plan::{plan_lean, Plan};
+use crate::plan::{plan, Plan};
+use crate::verdict::CheckKind;
 use serde::Serialize;
 
 /// Lowest and highest current density the search considers, A/mm².
@@ -43,18 +44,6 @@ pub enum Limit {
     FluxTurns,
 }
 
-impl Limit {
-    /// The word a person reads.
-    pub fn word(self) -> &'static str {
-        match self {
-            Limit::Window => "window",
-            Limit::Heating => "heating",
-            Limit::Regulation => "regulation",
-            Limit::FluxTurns => "flux/turns",
-        }
-    }
-}
-
 /// The outcome of one VA tried.
 #[derive(Debug, Clone)]
 struct Trial {
@@ -74,19 +63,11 @@ pub struct Rater {
 }
 
 fn flux_ok(p: &Plan) -> bool {
-    p.verdict
-        .checks
-        .iter()
-        .filter(|c| c.name == "flux")
-        .all(|c| c.ok)
+    p.verdict.passes(CheckKind::Flux)
 }
 
 fn outputs_ok(p: &Plan) -> bool {
-    p.verdict
-        .checks
-        .iter()
-        .filter(|c| c.name.starts_with("output ") || c.name == "primary current")
-        .all(|c| c.ok)
+    p.verdict.passes(CheckKind::Output) && p.verdict.passes(CheckKind::PrimaryCurrent)
 }
 
 impl Rater {
@@ -125,7 +106,7 @@ impl Rater {
         }
         self.job.current_density_a_mm2 = j;
         self.plans += 1;
-        plan_lean(&self.job)
+        plan(&self.job)
     }
 
     /// Tries one VA: the smallest J whose wires fit (bisection on log J from the whole range; wire
@@ -197,6 +178,9 @@ pub struct CapacityWire {
     pub turns: u32,
     /// Wire description.
     pub wire: String,
+    /// The conductor of one strand.
+    #[serde(skip)]
+    pub conductor: crate::wire::Conductor,
     /// Strands in hand.
     pub strands: u32,
 }
@@ -256,6 +240,7 @@ fn capacity_from(
                         amps: w.amps,
                         turns: w.turns,
                         wire: w.wire.conductor.describe(),
+                        conductor: w.wire.conductor.clone(),
                         strands: w.wire.strands,
                     })
                     .collect()
@@ -426,11 +411,37 @@ pub fn area_product_va(job: &Job, efficiency: f64) -> f64 {
     pt / (1.0 / eta + 1.0)
 }
 
+/// A change to the core or the job that would let it carry more.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Change {
+    /// A stack 25 % deeper; the new stack, mm.
+    DeeperStack {
+        /// The new stack depth, mm.
+        stack_mm: f64,
+    },
+    /// A lower flux density (more turns), T.
+    LowerFlux {
+        /// The flux, T.
+        flux_t: f64,
+    },
+    /// Strip conductor on the heaviest low-turn winding.
+    Strip {
+        /// The winding.
+        winding: String,
+        /// Strip width, mm.
+        width_mm: f64,
+        /// Foil thickness, mm.
+        thickness_mm: f64,
+    },
+    /// A fan: taken as twice the heat shed (common practice).
+    ForcedAir,
+}
+
 /// A change that would let the core carry more, with the capacity it gives.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct Improvement {
     /// What to change.
-    pub change: String,
+    pub change: Change,
     /// The capacity with the change, VA.
     pub max_va: f64,
 }
@@ -443,10 +454,9 @@ pub fn options(job: &Job, current: &Capacity) -> Vec<Improvement> {
     j.core.stack_mm *= 1.25;
     j.core.measured_mass_kg = j.core.measured_mass_kg.map(|m| m * 1.25);
     out.push(Improvement {
-        change: format!(
-            "stack 25 % deeper ({:.1} mm of laminations)",
-            j.core.stack_mm
-        ),
+        change: Change::DeeperStack {
+            stack_mm: j.core.stack_mm,
+        },
         max_va: capacity(&j).max_va,
     });
     // Lower flux, more turns: the best flux 10–30 % lower.
@@ -464,7 +474,7 @@ pub fn options(job: &Job, current: &Capacity) -> Vec<Improvement> {
     }
     if let Some((b, v)) = best {
         out.push(Improvement {
-            change: format!("lower flux {b:.2} T (more turns)"),
+            change: Change::LowerFlux { flux_t: b },
             max_va: v,
         });
     }
@@ -489,9 +499,11 @@ pub fn options(job: &Job, current: &Capacity) -> Vec<Improvement> {
             w.wire.strip_mm = Some((width, 0.2));
             let name = w.name.clone();
             out.push(Improvement {
-                change: format!(
-                    "strip conductor on \"{name}\" ({width:.0} mm wide, 0.2 mm foils in hand)"
-                ),
+                change: Change::Strip {
+                    winding: name,
+                    width_mm: width,
+                    thickness_mm: 0.2,
+                },
                 max_va: capacity(&j).max_va,
             });
         }
@@ -500,7 +512,7 @@ pub fn options(job: &Job, current: &Capacity) -> Vec<Improvement> {
     let mut j = job.clone();
     j.cooling_factor = 2.0;
     out.push(Improvement {
-        change: "forced air (a fan; taken as twice the heat shed, common practice)".to_string(),
+        change: Change::ForcedAir,
         max_va: capacity(&j).max_va,
     });
     out

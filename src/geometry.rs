@@ -170,6 +170,27 @@ pub fn rule_of_thumb_va(area_gross_mm2: f64) -> f64 {
     cm2 * cm2
 }
 
+/// What `ironwind core` reports: the measurements, their geometry and the rule-of-thumb rating.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CoreReport {
+    /// The measurements.
+    pub dims: CoreDims,
+    /// What follows from them.
+    pub geometry: CoreGeometry,
+    /// The rule of thumb Ae[cm²] ≈ √VA, VA (common practice, not a rating).
+    pub rule_of_thumb_va: f64,
+}
+
+/// The report of a measured core.
+pub fn core_report(dims: &CoreDims) -> CoreReport {
+    let g = geometry(dims);
+    CoreReport {
+        dims: dims.clone(),
+        rule_of_thumb_va: rule_of_thumb_va(g.area_gross_mm2),
+        geometry: g,
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -6,6 +6,7 @@
 
 use crate::error::{Error, Result};
 use crate::geometry::{default_leg_yoke, CoreDims, Shape};
+use crate::input::{fmt_value, toml_error, Checker};
 use crate::layout::LayoutSettings;
 use crate::magnetics::{steel_info, SteelInfo, Waveform, MAX_FLUX_T};
 #[cfg(test)]
@@ -213,131 +214,6 @@ impl Job {
     }
 }
 
-/// Converts a TOML error to one line: file, line, key and the message.
-pub fn toml_error(origin: &str, text: &str, err: &toml::de::Error) -> Error {
-    let msg = err.message().replace('\n', " ");
-    let Some(span) = err.span() else {
-        return Error::bad_input(origin, msg);
-    };
-    let start = span.start.min(text.len());
-    let line_no = text[..start].matches('\n').count() + 1;
-    let line = text.lines().nth(line_no - 1).unwrap_or("").trim();
-    let shown = crate::error::one_line(line);
-    if shown.is_empty() || msg.contains(&shown) {
-        Error::bad_input(origin, format!("line {line_no}: {msg}"))
-    } else {
-        Error::bad_input(origin, format!("line {line_no}: `{shown}`: {msg}"))
-    }
-}
-
-/// A range check helper bound to one file.
-pub struct Checker<'a> {
-    origin: &'a str,
-}
-
-impl<'a> Checker<'a> {
-    /// A checker for values from `origin`.
-    pub fn new(origin: &'a str) -> Self {
-        Checker { origin }
-    }
-
-    /// Checks lo < v ≤ hi (or lo ≤ v when `lo_inclusive`), finite.
-    pub fn range(
-        &self,
-        field: &str,
-        v: f64,
-        lo: f64,
-        lo_inclusive: bool,
-        hi: f64,
-        unit: &str,
-    ) -> Result<f64> {
-        let ok_lo = if lo_inclusive { v >= lo } else { v > lo };
-        if v.is_finite() && ok_lo && v <= hi {
-            return Ok(v);
-        }
-        let op = if lo_inclusive { "≥" } else { ">" };
-        let unit = if unit.is_empty() {
-            String::new()
-        } else {
-            format!(" {unit}")
-        };
-        Err(Error::bad_value(
-            self.origin,
-            field,
-            fmt_value(v),
-            format!("must be {op} {lo}{unit} and ≤ {hi}{unit}"),
-        ))
-    }
-
-    /// A length in mm that must be positive and at most `hi`.
-    pub fn length(&self, field: &str, v: &LengthInput, hi: f64) -> Result<f64> {
-        self.range(field, v.mm, 0.0, false, hi, "mm")
-            .map_err(|e| relabel(e, &v.text))
-    }
-
-    /// A length in mm that may be zero.
-    pub fn length0(&self, field: &str, v: &LengthInput, hi: f64) -> Result<f64> {
-        self.range(field, v.mm, 0.0, true, hi, "mm")
-            .map_err(|e| relabel(e, &v.text))
-    }
-
-    /// A choice among words.
-    pub fn word(&self, field: &str, v: &str, accepted: &[&str]) -> Result<String> {
-        let lower = v.trim().to_ascii_lowercase();
-        if accepted.contains(&lower.as_str()) {
-            Ok(lower)
-        } else {
-            let list: Vec<String> = accepted.iter().map(|a| format!("\"{a}\"")).collect();
-            Err(Error::bad_value(
-                self.origin,
-                field,
-                format!("\"{v}\""),
-                format!("must be one of {}", list.join(", ")),
-            ))
-        }
-    }
-
-    /// Any error for a field.
-    pub fn fail(
-        &self,
-        field: &str,
-        value: impl std::fmt::Display,
-        accepted: impl Into<String>,
-    ) -> Error {
-        Error::bad_value(self.origin, field, value, accepted)
-    }
-}
-
-fn relabel(e: Error, text: &str) -> Error {
-    match e {
-        Error::BadValue {
-            origin,
-            field,
-            accepted,
-            value,
-        } => Error::BadValue {
-            origin,
-            field,
-            value: if text.is_empty() || text == value {
-                value
-            } else {
-                format!("\"{text}\"")
-            },
-            accepted,
-        },
-        other => other,
-    }
-}
-
-/// Formats a number as a person typed it (no trailing zeros), or NaN/inf.
-pub fn fmt_value(v: f64) -> String {
-    if v.is_finite() {
-        format!("{v}")
-    } else {
-        format!("{v}").to_lowercase()
-    }
-}
-
 /// Largest core dimension accepted, mm.
 pub const MAX_CORE_MM: f64 = 1000.0;
 
@@ -362,9 +238,56 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
     }
     let raw: RawJob = toml::from_str(text).map_err(|e| toml_error(origin, text, &e))?;
     let c = Checker::new(origin);
+    let (core, steel, mut layout) = core_table(&c, &raw.core)?;
+    let (frequency_hz, waveform) = supply_table(&c, &raw.supply)?;
+    let limits = limits_table(&c, raw.limits.unwrap_or_default())?;
+    let wire = wire_table(&c, raw.wire.unwrap_or_default(), &mut layout)?;
+    insulation_table(&c, raw.insulation.unwrap_or_default(), &mut layout)?;
+    let windings = winding_tables(&c, &raw.winding, wire.grade)?;
+    let names: Vec<&str> = windings.iter().map(|w| w.name.as_str()).collect();
+    let probe = match raw.probe {
+        None => None,
+        Some(rp) => Some(crate::probe::check_probe_table(
+            &c,
+            rp.into_input(),
+            &names,
+            load_sweep,
+        )?),
+    };
+    cross_table_rules(&c, &windings, probe.as_ref())?;
+    Ok(Job {
+        name: raw
+            .name
+            .map(|n| crate::error::one_line(n.trim()))
+            .unwrap_or_else(|| "untitled job".to_string()),
+        core,
+        core_text: [
+            raw.core.tongue_mm.text.clone(),
+            raw.core.stack_mm.text.clone(),
+            raw.core.window_width_mm.text.clone(),
+            raw.core.window_height_mm.text.clone(),
+        ],
+        steel,
+        frequency_hz,
+        waveform,
+        flux_density_t: limits.flux_density_t,
+        current_density_a_mm2: limits.current_density_a_mm2,
+        ambient_c: limits.ambient_c,
+        max_rise_c: limits.max_rise_c,
+        system: wire.system,
+        grade: wire.grade,
+        max_strand_mm: wire.max_strand_mm,
+        layout,
+        lead_m: wire.lead_m,
+        windings,
+        probe,
+        load_duty: 1.0,
+        cooling_factor: 1.0,
+    })
+}
 
-    // [core]
-    let rc = &raw.core;
+/// `[core]`: the measured core, its steel and the bobbin wall.
+fn core_table(c: &Checker, rc: &RawCore) -> Result<(CoreDims, SteelInfo, LayoutSettings)> {
     let shape = match rc.shape.as_deref() {
         None => Shape::Ei,
         Some(s) => match c.word("[core] shape", s, &["ei", "ui"])?.as_str() {
@@ -414,24 +337,27 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
         yoke_mm: yoke,
         measured_mass_kg: mass,
     };
+    Ok((core, steel, layout))
+}
 
-    // [supply]
+/// `[supply]`: frequency and waveform.
+fn supply_table(c: &Checker, rs: &RawSupply) -> Result<(f64, Waveform)> {
     let f = c.range(
         "[supply] frequency_hz",
-        raw.supply.frequency_hz,
+        rs.frequency_hz,
         1.0,
         true,
         2000.0,
         "Hz",
     )?;
-    let waveform_name = match &raw.supply.waveform {
+    let waveform_name = match &rs.waveform {
         Some(wf) => c.word("[supply] waveform", wf, &["sine", "square", "quasi-square"])?,
         None => "sine".to_string(),
     };
     let waveform = match waveform_name.as_str() {
         "square" => Waveform::Square,
         "quasi-square" => {
-            let d = raw.supply.duty.ok_or_else(|| {
+            let d = rs.duty.ok_or_else(|| {
                 c.fail("[supply] duty", "(missing)", "a quasi-square drive needs duty, the conduction fraction of each half cycle, > 0 and ≤ 1")
             })?;
             Waveform::QuasiSquare {
@@ -440,10 +366,7 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
         }
         _ => Waveform::Sine,
     };
-    if let (Some(d), false) = (
-        raw.supply.duty,
-        matches!(waveform, Waveform::QuasiSquare { .. }),
-    ) {
+    if let (Some(d), false) = (rs.duty, matches!(waveform, Waveform::QuasiSquare { .. })) {
         if d != 1.0 {
             return Err(c.fail(
                 "[supply] duty",
@@ -452,9 +375,19 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
             ));
         }
     }
+    Ok((f, waveform))
+}
 
-    // [limits]
-    let lim = raw.limits.unwrap_or_default();
+/// The checked `[limits]` table.
+struct Limits {
+    flux_density_t: Option<f64>,
+    current_density_a_mm2: f64,
+    ambient_c: f64,
+    max_rise_c: f64,
+}
+
+/// `[limits]`: flux, current density (A/mm² or cmil/A), ambient and rise.
+fn limits_table(c: &Checker, lim: RawLimits) -> Result<Limits> {
     let flux = match lim.flux_density_t {
         Some(b) => Some(c.range("[limits] flux_density_t", b, 0.0, false, MAX_FLUX_T, "T")?),
         None => None,
@@ -494,9 +427,24 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
         Some(t) => c.range("[limits] max_rise_c", t, 0.0, false, 150.0, "°C")?,
         None => 50.0,
     };
+    Ok(Limits {
+        flux_density_t: flux,
+        current_density_a_mm2: j,
+        ambient_c: ambient,
+        max_rise_c: rise,
+    })
+}
 
-    // [wire]
-    let rw = raw.wire.unwrap_or_default();
+/// The checked `[wire]` table (the pitch goes into the layout settings).
+struct WireTable {
+    system: System,
+    grade: Grade,
+    max_strand_mm: f64,
+    lead_m: f64,
+}
+
+/// `[wire]`: system, grade, thickest strand, pitch and lead length.
+fn wire_table(c: &Checker, rw: RawWire, layout: &mut LayoutSettings) -> Result<WireTable> {
     let system = match &rw.system {
         Some(sys) => match c.word("[wire] system", sys, &["metric", "awg"])?.as_str() {
             "awg" => System::Awg,
@@ -533,9 +481,16 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
         Some(l) => c.range("[wire] lead_m", l, 0.0, true, 10.0, "m")?,
         None => 0.15,
     };
+    Ok(WireTable {
+        system,
+        grade,
+        max_strand_mm: max_strand,
+        lead_m,
+    })
+}
 
-    // [insulation]
-    let ri = raw.insulation.unwrap_or_default();
+/// `[insulation]`: interlayer, between windings, outer wrap, clearance and margin.
+fn insulation_table(c: &Checker, ri: RawInsulation, layout: &mut LayoutSettings) -> Result<()> {
     if let Some(v) = &ri.interlayer_mm {
         layout.interlayer_mm = c.length0("[insulation] interlayer_mm", v, 5.0)?;
     }
@@ -551,50 +506,68 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
     if let Some(v) = &ri.margin_mm {
         layout.margin_mm = c.length0("[insulation] margin_mm", v, 50.0)?;
     }
+    Ok(())
+}
 
-    // [[winding]]
-    if raw.winding.is_empty() {
+/// Every `[[winding]]`, in order, each checked on its own.
+fn winding_tables(c: &Checker, raw: &[RawWinding], grade: Grade) -> Result<Vec<WindingSpec>> {
+    if raw.is_empty() {
         return Err(c.fail(
             "[[winding]]",
             "(none)",
             "a job needs one primary and at least one secondary winding",
         ));
     }
-    if raw.winding.len() > 32 {
+    if raw.len() > 32 {
         return Err(c.fail(
             "[[winding]]",
-            format!("{} windings", raw.winding.len()),
+            format!("{} windings", raw.len()),
             "at most 32 windings",
         ));
     }
     let mut windings: Vec<WindingSpec> = Vec::new();
-    for (i, rw) in raw.winding.iter().enumerate() {
-        let at = format!("[[winding]] #{}", i + 1);
-        let name = rw.name.trim().to_string();
-        if name.is_empty() || name.chars().count() > 40 || name.chars().any(char::is_control) {
-            return Err(c.fail(
-                &format!("{at} name"),
-                format!("\"{}\"", rw.name),
-                "must be 1 to 40 printable characters",
-            ));
-        }
-        if windings.iter().any(|w| w.name == name) {
-            return Err(c.fail(
-                &format!("{at} name"),
-                format!("\"{name}\""),
-                "winding names must be unique; this one is used twice",
-            ));
-        }
-        let key = |k: &str| format!("[[winding]] \"{name}\" {k}");
-        let role = match c
-            .word(&key("role"), &rw.role, &["primary", "secondary"])?
-            .as_str()
-        {
-            "primary" => Role::Primary,
-            _ => Role::Secondary,
-        };
-        let volts = c.range(&key("volts"), rw.volts, 0.0, false, 100_000.0, "V")?;
-        let amps = match (role, rw.amps) {
+    for (i, rw) in raw.iter().enumerate() {
+        let w = winding_table(c, i, rw, grade, &windings)?;
+        windings.push(w);
+    }
+    Ok(windings)
+}
+
+/// One `[[winding]]`: name, role, volts and amps, then its wire, taps and kept-winding keys.
+fn winding_table(
+    c: &Checker,
+    i: usize,
+    rw: &RawWinding,
+    grade: Grade,
+    before: &[WindingSpec],
+) -> Result<WindingSpec> {
+    let at = format!("[[winding]] #{}", i + 1);
+    let name = rw.name.trim().to_string();
+    if name.is_empty() || name.chars().count() > 40 || name.chars().any(char::is_control) {
+        return Err(c.fail(
+            &format!("{at} name"),
+            format!("\"{}\"", rw.name),
+            "must be 1 to 40 printable characters",
+        ));
+    }
+    if before.iter().any(|w| w.name == name) {
+        return Err(c.fail(
+            &format!("{at} name"),
+            format!("\"{name}\""),
+            "winding names must be unique; this one is used twice",
+        ));
+    }
+    let key = |k: &str| format!("[[winding]] \"{name}\" {k}");
+    let role = match c
+        .word(&key("role"), &rw.role, &["primary", "secondary"])?
+        .as_str()
+    {
+        "primary" => Role::Primary,
+        _ => Role::Secondary,
+    };
+    let volts = c.range(&key("volts"), rw.volts, 0.0, false, 100_000.0, "V")?;
+    let amps =
+        match (role, rw.amps) {
             (Role::Secondary, None) => {
                 return Err(c.fail(
                     &key("amps"),
@@ -610,95 +583,125 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
             )),
             (Role::Primary, None) => 0.0,
         };
-        let mut wire = WireRequest::default();
-        if let Some(sz) = &rw.size {
-            wire.size = Some(
-                find_size(sz, grade).map_err(|m| c.fail(&key("size"), format!("\"{sz}\""), m))?,
-            );
+    let wire = wire_request(c, rw, grade, &key)?;
+    let taps_volts = taps(c, rw, role, volts, &key)?;
+    let kept = rw.kept.unwrap_or(false);
+    let rated = match rw.rated_volts {
+        Some(v) => Some(c.range(&key("rated_volts"), v, 0.0, false, 100_000.0, "V")?),
+        None => None,
+    };
+    let res = match rw.resistance_ohm {
+        Some(r) => Some(c.range(&key("resistance_ohm"), r, 0.0, false, 100_000.0, "Ω")?),
+        None => None,
+    };
+    let build = match &rw.build_mm {
+        Some(b) => Some(c.length(&key("build_mm"), b, MAX_CORE_MM)?),
+        None => None,
+    };
+    if !kept && (rated.is_some() || res.is_some() || build.is_some()) {
+        return Err(c.fail(&key("kept"), "false", "rated_volts, resistance_ohm and build_mm describe a kept donor winding: add kept = true"));
+    }
+    Ok(WindingSpec {
+        name,
+        role,
+        volts,
+        amps,
+        wire,
+        taps_volts,
+        kept,
+        rated_volts: rated,
+        resistance_ohm: res,
+        build_mm: build,
+    })
+}
+
+/// A winding's `size`, `strands` and `strip_mm`.
+fn wire_request(
+    c: &Checker,
+    rw: &RawWinding,
+    grade: Grade,
+    key: &dyn Fn(&str) -> String,
+) -> Result<WireRequest> {
+    let mut wire = WireRequest::default();
+    if let Some(sz) = &rw.size {
+        wire.size =
+            Some(find_size(sz, grade).map_err(|m| c.fail(&key("size"), format!("\"{sz}\""), m))?);
+    }
+    if let Some(n) = rw.strands {
+        if !(1..=200).contains(&n) {
+            return Err(c.fail(&key("strands"), n, "must be ≥ 1 and ≤ 200"));
         }
-        if let Some(n) = rw.strands {
-            if !(1..=200).contains(&n) {
-                return Err(c.fail(&key("strands"), n, "must be ≥ 1 and ≤ 200"));
-            }
-            wire.strands = Some(n);
-        }
-        if let Some(strip) = &rw.strip_mm {
-            if strip.len() != 2 {
-                return Err(c.fail(
-                    &key("strip_mm"),
-                    format!("{} values", strip.len()),
-                    "must be [width, thickness] in mm",
-                ));
-            }
-            if wire.size.is_some() {
-                return Err(c.fail(
-                    &key("strip_mm"),
-                    "(with size)",
-                    "give either size or strip_mm, not both",
-                ));
-            }
-            let sw = c.length(&key("strip_mm[0] (width)"), &strip[0], 500.0)?;
-            let st = c.length(&key("strip_mm[1] (thickness)"), &strip[1], 20.0)?;
-            if st > sw {
-                return Err(c.fail(
-                    &key("strip_mm"),
-                    format!("[{sw}, {st}]"),
-                    "must be [width, thickness] with width ≥ thickness",
-                ));
-            }
-            if st < 0.05 {
-                return Err(c.fail(&key("strip_mm[1] (thickness)"), st, "must be ≥ 0.05 mm"));
-            }
-            wire.strip_mm = Some((sw, st));
-        }
-        let mut taps = rw.taps_volts.clone().unwrap_or_default();
-        if !taps.is_empty() && role == Role::Primary {
+        wire.strands = Some(n);
+    }
+    if let Some(strip) = &rw.strip_mm {
+        if strip.len() != 2 {
             return Err(c.fail(
-                &key("taps_volts"),
-                "(on the primary)",
-                "taps are planned on output windings only",
+                &key("strip_mm"),
+                format!("{} values", strip.len()),
+                "must be [width, thickness] in mm",
             ));
         }
-        for t in &taps {
-            if !(t.is_finite() && *t > 0.0 && *t < volts) {
-                return Err(c.fail(
-                    &key("taps_volts"),
-                    fmt_value(*t),
-                    format!("each tap must be > 0 V and below the winding's {volts} V"),
-                ));
-            }
+        if wire.size.is_some() {
+            return Err(c.fail(
+                &key("strip_mm"),
+                "(with size)",
+                "give either size or strip_mm, not both",
+            ));
         }
-        taps.sort_by(f64::total_cmp);
-        taps.dedup();
-        let kept = rw.kept.unwrap_or(false);
-        let rated = match rw.rated_volts {
-            Some(v) => Some(c.range(&key("rated_volts"), v, 0.0, false, 100_000.0, "V")?),
-            None => None,
-        };
-        let res = match rw.resistance_ohm {
-            Some(r) => Some(c.range(&key("resistance_ohm"), r, 0.0, false, 100_000.0, "Ω")?),
-            None => None,
-        };
-        let build = match &rw.build_mm {
-            Some(b) => Some(c.length(&key("build_mm"), b, MAX_CORE_MM)?),
-            None => None,
-        };
-        if !kept && (rated.is_some() || res.is_some() || build.is_some()) {
-            return Err(c.fail(&key("kept"), "false", "rated_volts, resistance_ohm and build_mm describe a kept donor winding: add kept = true"));
+        let sw = c.length(&key("strip_mm[0] (width)"), &strip[0], 500.0)?;
+        let st = c.length(&key("strip_mm[1] (thickness)"), &strip[1], 20.0)?;
+        if st > sw {
+            return Err(c.fail(
+                &key("strip_mm"),
+                format!("[{sw}, {st}]"),
+                "must be [width, thickness] with width ≥ thickness",
+            ));
         }
-        windings.push(WindingSpec {
-            name,
-            role,
-            volts,
-            amps,
-            wire,
-            taps_volts: taps,
-            kept,
-            rated_volts: rated,
-            resistance_ohm: res,
-            build_mm: build,
-        });
+        if st < 0.05 {
+            return Err(c.fail(&key("strip_mm[1] (thickness)"), st, "must be ≥ 0.05 mm"));
+        }
+        wire.strip_mm = Some((sw, st));
     }
+    Ok(wire)
+}
+
+/// A winding's `taps_volts`: on outputs only, each below the winding's volts; sorted, unique.
+fn taps(
+    c: &Checker,
+    rw: &RawWinding,
+    role: Role,
+    volts: f64,
+    key: &dyn Fn(&str) -> String,
+) -> Result<Vec<f64>> {
+    let mut taps = rw.taps_volts.clone().unwrap_or_default();
+    if !taps.is_empty() && role == Role::Primary {
+        return Err(c.fail(
+            &key("taps_volts"),
+            "(on the primary)",
+            "taps are planned on output windings only",
+        ));
+    }
+    for t in &taps {
+        if !(t.is_finite() && *t > 0.0 && *t < volts) {
+            return Err(c.fail(
+                &key("taps_volts"),
+                fmt_value(*t),
+                format!("each tap must be > 0 V and below the winding's {volts} V"),
+            ));
+        }
+    }
+    taps.sort_by(f64::total_cmp);
+    taps.dedup();
+    Ok(taps)
+}
+
+/// Rules across tables: one primary, at least one output, at most one kept winding, and a kept
+/// winding's test winding.
+fn cross_table_rules(
+    c: &Checker,
+    windings: &[WindingSpec],
+    probe: Option<&ProbeInput>,
+) -> Result<()> {
     let primaries = windings.iter().filter(|w| w.role == Role::Primary).count();
     if primaries != 1 {
         return Err(c.fail(
@@ -722,54 +725,14 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
             "at most one donor winding can be kept",
         ));
     }
-
-    // [probe]
-    let probe = match raw.probe {
-        None => None,
-        Some(rp) => Some(crate::probe::check_probe_table(
-            &c,
-            rp.into_input(),
-            &windings,
-            load_sweep,
-        )?),
-    };
-    if kept_count == 1 && probe.as_ref().and_then(|p| p.test.as_ref()).is_none() {
+    if kept_count == 1 && probe.and_then(|p| p.test.as_ref()).is_none() {
         return Err(c.fail(
             "[probe] test_turns",
             "(missing)",
             "a kept winding needs a test winding in [probe] (test_turns, test_volts, applied_volts) to count its turns",
         ));
     }
-
-    Ok(Job {
-        name: raw
-            .name
-            .map(|n| crate::error::one_line(n.trim()))
-            .unwrap_or_else(|| "untitled job".to_string()),
-        core,
-        core_text: [
-            rc.tongue_mm.text.clone(),
-            rc.stack_mm.text.clone(),
-            rc.window_width_mm.text.clone(),
-            rc.window_height_mm.text.clone(),
-        ],
-        steel,
-        frequency_hz: f,
-        waveform,
-        flux_density_t: flux,
-        current_density_a_mm2: j,
-        ambient_c: ambient,
-        max_rise_c: rise,
-        system,
-        grade,
-        max_strand_mm: max_strand,
-        layout,
-        lead_m,
-        windings,
-        probe,
-        load_duty: 1.0,
-        cooling_factor: 1.0,
-    })
+    Ok(())
 }
 
 impl RawProbe {

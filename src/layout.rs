@@ -79,6 +79,12 @@ pub struct CoilLayout {
     pub layers: u32,
     /// Radial build of the winding, mm.
     pub build_mm: f64,
+    /// Distance from the tube's outer face to the winding's inner face, mm.
+    pub start_mm: f64,
+    /// Radial thickness of one layer (one diameter, or every foil in hand), mm.
+    pub layer_mm: f64,
+    /// Insulation between its layers, mm.
+    pub interlayer_mm: f64,
     /// Distance from the tube's outer face to the middle of the winding, mm.
     pub mid_mm: f64,
     /// Mean length of turn, mm.
@@ -105,6 +111,20 @@ pub struct Layout {
 }
 
 impl CoilLayout {
+    /// Where each layer after the first begins, from the tube's outer face, mm: the middle of the
+    /// insulation between two layers (what a drawing of the coil marks). Only those inside the
+    /// winding's build (a kept winding's measured build may be thinner than its layers).
+    pub fn layer_boundaries_mm(&self) -> Vec<f64> {
+        if self.layers < 2 || self.turns_per_layer == 0 {
+            return Vec::new();
+        }
+        let pitch = self.layer_mm + self.interlayer_mm;
+        (1..self.layers)
+            .map(|l| self.start_mm + l as f64 * pitch - self.interlayer_mm / 2.0)
+            .take_while(|&x| x < self.start_mm + self.build_mm)
+            .collect()
+    }
+
     /// Fills the running turn count at the end of each layer (left empty while a plan iterates).
     pub fn fill_checkpoints(&mut self) {
         let (n, tpl) = (self.coil_turns, self.turns_per_layer);
@@ -164,6 +184,7 @@ pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> La
             )
         };
         let build = w.measured_build_mm.unwrap_or(build);
+        let start = position;
         let mid = position + build / 2.0;
         position += build;
         let mlt = 2.0 * (core.tongue_mm + core.stack_mm) + 8.0 * s.bobbin_wall_mm + 2.0 * PI * mid;
@@ -173,6 +194,9 @@ pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> La
             turns_per_layer: tpl,
             layers,
             build_mm: build,
+            start_mm: start,
+            layer_mm: layer_build,
+            interlayer_mm: s.interlayer_mm,
             mid_mm: mid,
             mean_turn_mm: mlt,
             checkpoints: Vec::new(),
@@ -244,6 +268,37 @@ mod tests {
         );
         assert_relative_eq!(l.coils[1].mid_mm, 3.1 + 0.25 + 1.0, max_relative = EXACT);
         assert!(l.coils[1].mean_turn_mm > l.coils[0].mean_turn_mm);
+    }
+
+    #[test]
+    fn foils_in_hand_make_thick_layers() {
+        // Three 0.4 mm foils (0.5 mm insulated) in hand, 22 mm wide on a 45 mm traverse: one turn per
+        // layer (22.1·1.05 > 45/2), so 6 turns are 6 layers, each 1.5 mm thick (by hand).
+        let core = CoreDims::new(Shape::Ei, 32.0, 40.0, (16.0, 48.0), 0.95);
+        let strip = CoilInput {
+            turns: 6,
+            strands: 3,
+            traverse_mm: 22.1,
+            build_mm: 0.5,
+            area_mm2: 8.8,
+            measured_build_mm: None,
+            stacked: true,
+        };
+        let l = layout(&core, &LayoutSettings::default(), &[coil(100, 1.0), strip]);
+        let c = &l.coils[1];
+        assert_eq!((c.turns_per_layer, c.layers), (1, 6));
+        assert_relative_eq!(c.layer_mm, 1.5, max_relative = EXACT);
+        assert_relative_eq!(c.start_mm, 3.1 + 0.25, max_relative = EXACT);
+        let b = c.layer_boundaries_mm();
+        assert_eq!(b.len(), 5);
+        // Evenly spaced across the whole build, 1.55 mm apart, the last one layer from the outside.
+        assert_relative_eq!(b[0], 3.35 + 1.5 + 0.025, max_relative = EXACT);
+        assert_relative_eq!(b[4] - b[0], 4.0 * 1.55, max_relative = EXACT);
+        assert_relative_eq!(
+            c.start_mm + c.build_mm - b[4],
+            1.5 + 0.025,
+            max_relative = EXACT
+        );
     }
 
     #[test]

@@ -24,7 +24,11 @@ use crate::losses::{
     temperature_factor,
 };
 use crate::magnetics::{ceil_turns, core_loss_w, SteelInfo, Waveform, MAX_FLUX_T};
-use crate::probe::{donor_flux_notes, no_load_amps, sweep_report, test_report};
+use crate::probe::{
+    donor_flux_notes, no_load_amps, sweep_report, test_report, Sweep, SweepReport, TestReport,
+    TestWinding,
+};
+use crate::verdict::{Check, CheckFigures, FluxSource, KeptOutputNote, Verdict, Warning};
 use crate::wire::{choose, Conductor, WireChoice};
 
 /// Window fill above which hand winding gets hard (McLyman's window utilisation Ku = 0.4).
@@ -55,7 +59,7 @@ pub struct Drive {
     /// The flux the design aimed at, T.
     pub design_flux_t: f64,
     /// Where the design flux came from.
-    pub flux_source: String,
+    pub flux_source: FluxSource,
     /// The flux ceiling the flux check compares with, T.
     pub flux_limit_t: f64,
     /// Volts per turn (RMS).
@@ -69,7 +73,7 @@ pub struct Drive {
     /// Actual flux over the donor's measured flux, when a test winding is known.
     pub flux_vs_donor: Option<f64>,
     /// How the drive compares with the donor's own sine, when a kept output sets the turns.
-    pub kept_output_note: Option<String>,
+    pub kept_output_note: Option<KeptOutputNote>,
 }
 
 /// A tap on an output.
@@ -192,37 +196,6 @@ pub struct ProbePlan {
     pub recommended_flux_t: Option<f64>,
 }
 
-/// One check of the verdict.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Check {
-    /// Its name.
-    pub name: String,
-    /// Whether it passes.
-    pub ok: bool,
-    /// One line of detail.
-    pub detail: String,
-}
-
-/// The verdict.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Verdict {
-    /// All checks pass.
-    pub ok: bool,
-    /// The checks.
-    pub checks: Vec<Check>,
-}
-
-impl Verdict {
-    /// The names of the checks that fail, in order.
-    pub fn failed(&self) -> Vec<&str> {
-        self.checks
-            .iter()
-            .filter(|c| !c.ok)
-            .map(|c| c.name.as_str())
-            .collect()
-    }
-}
-
 /// The whole plan.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Plan {
@@ -249,7 +222,7 @@ pub struct Plan {
     /// Verdict.
     pub verdict: Verdict,
     /// Warnings.
-    pub warnings: Vec<String>,
+    pub warnings: Vec<Warning>,
     /// Cautions.
     pub cautions: &'static [&'static str],
     /// The current density limit, A/mm².
@@ -302,6 +275,99 @@ pub fn smallest_turns(target: f64, v: f64, amps: f64, a: f64, b: f64) -> (u32, b
     (n, f(n as f64) >= target * (1.0 - 1e-12))
 }
 
+/// What the plan knows before its loop: the job, the core, the probe's reports and the design flux.
+struct Ctx<'a> {
+    job: &'a Job,
+    g: CoreGeometry,
+    p_idx: usize,
+    v_p_rms: f64,
+    hot_c: f64,
+    test: Option<(&'a TestWinding, TestReport)>,
+    sweep: Option<&'a Sweep>,
+    sweep_rep: Option<SweepReport>,
+    recommended: Option<f64>,
+    design_flux: f64,
+    source: FluxSource,
+    kept_idx: Option<usize>,
+}
+
+impl<'a> Ctx<'a> {
+    /// The probe's reports and the design flux with its source; early warnings go to `warnings`.
+    fn new(job: &'a Job, warnings: &mut Vec<Warning>) -> Ctx<'a> {
+        let g = geometry(&job.core);
+        let (f, ae) = (job.frequency_hz, g.area_net_mm2);
+        let p_idx = job.primary_index();
+        let test = job
+            .probe
+            .as_ref()
+            .and_then(|p| p.test.as_ref())
+            .map(|t| (t, test_report(t, f, ae)));
+        let sweep = job.probe.as_ref().and_then(|p| p.sweep.as_ref());
+        let sweep_rep =
+            sweep.map(|s| sweep_report(&s.curve, s.knees, s.turns, f, ae, g.path_length_mm));
+        if let Some((_, r)) = &test {
+            warnings.extend(donor_flux_notes(r.donor_flux_t));
+        }
+        let recommended = sweep_rep.as_ref().and_then(|r| r.recommended_flux_t);
+        if sweep.is_some() && recommended.is_none() {
+            warnings.push(Warning::SweepBelowKnee { in_plan: true });
+        }
+        let steel_flux = job.steel.design_flux_t;
+        let (design_flux, source) = match (job.flux_density_t, recommended) {
+            (Some(b), Some(rec)) if b > rec => {
+                warnings.push(Warning::GivenFluxAboveSweep {
+                    given_t: b,
+                    recommended_t: rec,
+                });
+                (b, FluxSource::GivenAboveSweep)
+            }
+            (Some(b), _) => (b, FluxSource::Given),
+            (None, Some(rec)) if rec < steel_flux => (rec, FluxSource::Sweep),
+            (None, _) => (steel_flux, FluxSource::Steel(job.steel.name.clone())),
+        };
+        Ctx {
+            job,
+            g,
+            p_idx,
+            v_p_rms: job.waveform.rms_volts(job.windings[p_idx].volts),
+            hot_c: job.ambient_c + job.max_rise_c,
+            test,
+            sweep,
+            sweep_rep,
+            recommended,
+            design_flux,
+            source,
+            kept_idx: job.windings.iter().position(|w| w.kept),
+        }
+    }
+
+    fn primary(&self) -> &'a crate::job::WindingSpec {
+        &self.job.windings[self.p_idx]
+    }
+
+    /// The measured volts per turn of the test winding.
+    fn v_meas(&self) -> Option<f64> {
+        self.test.as_ref().map(|(t, _)| t.volts_per_turn())
+    }
+
+    /// A kept winding's turns: its rated volts over the measured volts per turn.
+    fn kept_turns(&self, i: usize) -> u32 {
+        let w = &self.job.windings[i];
+        let rated = w.rated_volts.unwrap_or_else(|| match self.test.as_ref() {
+            Some((t, _)) if t.applied_to.as_deref() == Some(w.name.as_str()) => t.applied_volts,
+            _ => w.volts,
+        });
+        let vm = self.v_meas().unwrap_or(1.0);
+        (rated / vm).round().clamp(1.0, 1e7) as u32
+    }
+
+    /// The kept output's index, when the kept winding is not the primary.
+    fn kept_output(&self) -> Option<usize> {
+        self.kept_idx.filter(|&k| k != self.p_idx)
+    }
+}
+
+/// What one round of the fixed-point loop carries to the next.
 struct State {
     turns: Vec<u32>,
     wires: Vec<WireChoice>,
@@ -309,311 +375,297 @@ struct State {
     n_p: u32,
 }
 
-/// Plans a job. Never fails on a checked job: a design that does not work is a verdict.
-pub fn plan(job: &Job) -> Plan {
-    plan_with(job, true)
-}
-
-/// Plans a job for a search (capacity, shelf ranking): every number and check as [`plan`], without
-/// the words — check details and warnings are left empty, which is most of a plan's cost.
-pub fn plan_lean(job: &Job) -> Plan {
-    plan_with(job, false)
-}
-
-fn plan_with(job: &Job, words: bool) -> Plan {
-    // Formats only when the plan is for a person.
-    macro_rules! say {
-        ($($t:tt)*) => {
-            if words { format!($($t)*) } else { String::new() }
-        };
-    }
-    let g = geometry(&job.core);
-    let ae = g.area_net_mm2;
-    let f = job.frequency_hz;
-    let wf = job.waveform;
-    let p_idx = job.primary_index();
-    let primary = &job.windings[p_idx];
-    let v_p_rms = wf.rms_volts(primary.volts);
-    let hot_c = job.ambient_c + job.max_rise_c;
-    let mut warnings: Vec<String> = Vec::new();
-
-    // Probe results.
-    let test = job
-        .probe
-        .as_ref()
-        .and_then(|p| p.test.as_ref())
-        .map(|t| (t, test_report(t, f, ae)));
-    let sweep = job.probe.as_ref().and_then(|p| p.sweep.as_ref());
-    let sweep_rep =
-        sweep.map(|s| sweep_report(&s.curve, s.knees, s.turns, f, ae, g.path_length_mm));
-    if let Some((_, r)) = &test {
-        warnings.extend(donor_flux_notes(r.donor_flux_t));
-    }
-
-    // Design flux and its source.
-    let steel_flux = job.steel.design_flux_t;
-    let recommended = sweep_rep.as_ref().and_then(|r| r.recommended_flux_t);
-    if sweep.is_some() && recommended.is_none() {
-        warnings.push("the sweep does not reach the IEC knee (10 % more volts never gave 50 % more current inside it): the flux cap is not known; sweep higher".to_string());
-    }
-    let (design_flux, source) = match (job.flux_density_t, recommended) {
-        (Some(b), Some(rec)) if b > rec => {
-            warnings.push(say!(
-                "the given flux {b:.2} T is above the sweep's recommended {rec:.2} T (0.9 × the IEC knee): kept as given, expect a high idle current"
-            ));
-            (
-                b,
-                "given in the job (above the sweep's recommendation)".to_string(),
-            )
-        }
-        (Some(b), _) => (b, "given in the job".to_string()),
-        (None, Some(rec)) if rec < steel_flux => (rec, "sweep: 0.9 × the IEC knee".to_string()),
-        (None, _) => (steel_flux, format!("steel default ({})", job.steel.name)),
+/// The first guess: primary turns from the EMF equation (or the kept winding), outputs by ratio.
+fn initial_state(c: &Ctx) -> State {
+    let job = c.job;
+    let (f, ae, wf) = (job.frequency_hz, c.g.area_net_mm2, job.waveform);
+    let mut n_p = match c.kept_idx {
+        Some(k) if k == c.p_idx => c.kept_turns(k),
+        _ => ceil_turns(wf.turns_exact(c.primary().volts, f, c.design_flux, ae)).min(10_000_000),
     };
-    let flux_limit = design_flux.min(MAX_FLUX_T);
-
-    // Kept windings.
-    let v_meas = test.as_ref().map(|(t, _)| t.volts_per_turn());
-    let kept_idx = job.windings.iter().position(|w| w.kept);
-    let kept_turns = |i: usize| -> u32 {
-        let w = &job.windings[i];
-        let rated = w.rated_volts.unwrap_or_else(|| match test.as_ref() {
-            Some((t, _)) if t.applied_to.as_deref() == Some(w.name.as_str()) => t.applied_volts,
-            _ => w.volts,
-        });
-        let vm = v_meas.unwrap_or(1.0);
-        (rated / vm).round().clamp(1.0, 1e7) as u32
-    };
-
-    // Primary turns before the loop.
-    let mut n_p = match kept_idx {
-        Some(k) if k == p_idx => kept_turns(k),
-        _ => ceil_turns(wf.turns_exact(primary.volts, f, design_flux, ae)).min(10_000_000),
-    };
-    if let Some(k) = kept_idx.filter(|&k| k != p_idx) {
+    if let Some(k) = c.kept_output() {
         // Start from the measured volts per turn: N_p ≈ V_p / (V_k / N_k).
-        let nk = kept_turns(k) as f64;
-        n_p = (v_p_rms * nk / job.windings[k].volts)
+        let nk = c.kept_turns(k) as f64;
+        n_p = (c.v_p_rms * nk / job.windings[k].volts)
             .floor()
             .clamp(1.0, 1e7) as u32;
     }
-
-    let grade_label = |w: &WireChoice| match &w.conductor {
-        Conductor::Round(r) => job.grade.label(r.system),
-        Conductor::Strip { .. } => "strip, insulated",
-    };
-
     let p_out_guess: f64 = job
         .windings
         .iter()
         .filter(|w| w.role == Role::Secondary)
         .map(|w| w.volts * w.amps)
         .sum();
-    let mut st = State {
+    State {
         turns: job
             .windings
             .iter()
             .enumerate()
             .map(|(i, w)| {
-                if i == p_idx {
+                if i == c.p_idx {
                     n_p
                 } else if w.kept {
-                    kept_turns(i)
+                    c.kept_turns(i)
                 } else {
-                    ceil_turns(w.volts * n_p as f64 / v_p_rms).min(10_000_000)
+                    ceil_turns(w.volts * n_p as f64 / c.v_p_rms).min(10_000_000)
                 }
             })
             .collect(),
         wires: Vec::new(),
-        primary_amps: p_out_guess / v_p_rms / 0.9,
+        primary_amps: p_out_guess / c.v_p_rms / 0.9,
         n_p,
-    };
+    }
+}
 
+/// The figures of one round: layout, hot resistances, core loss, flux and the output maxima.
+struct Round {
+    lay: Layout,
+    r_hot: Vec<f64>,
+    core_w: f64,
+    flux: f64,
+    v_turn: f64,
+    max_fl: Vec<Option<f64>>,
+    primary_ok: bool,
+}
+
+/// What a round proposes for the next: turns, primary turns and primary current.
+struct Next {
+    turns: Vec<u32>,
+    n_p: u32,
+    primary_amps: f64,
+}
+
+/// Wires from the currents, by the job's choice rule.
+fn choose_wires(c: &Ctx, primary_amps: f64) -> Vec<WireChoice> {
+    let job = c.job;
+    job.windings
+        .iter()
+        .enumerate()
+        .map(|(i, w)| {
+            let amps = if i == c.p_idx { primary_amps } else { w.amps };
+            choose(
+                amps,
+                job.current_density_a_mm2,
+                job.system,
+                job.grade,
+                job.max_strand_mm,
+                &w.wire,
+            )
+        })
+        .collect()
+}
+
+/// The coil laid out with the current turns and wires.
+fn lay_out(c: &Ctx, st: &State) -> Layout {
+    let coils: Vec<CoilInput> = c
+        .job
+        .windings
+        .iter()
+        .zip(&st.wires)
+        .zip(&st.turns)
+        .map(|((w, wire), &n)| CoilInput {
+            turns: n,
+            strands: wire.strands,
+            traverse_mm: wire.conductor.traverse_mm(),
+            build_mm: wire.conductor.build_mm(),
+            area_mm2: wire.conductor.area_mm2(),
+            measured_build_mm: w.build_mm,
+            stacked: matches!(wire.conductor, Conductor::Strip { .. }),
+        })
+        .collect();
+    layout(&c.job.core, &c.job.settings_layout(), &coils)
+}
+
+/// Hot resistance per turn of each winding (a kept winding's from its measured resistance).
+fn hot_per_turn(c: &Ctx, st: &State, lay: &Layout) -> Vec<f64> {
+    c.job
+        .windings
+        .iter()
+        .zip(&st.wires)
+        .zip(&lay.coils)
+        .zip(&st.turns)
+        .map(|(((w, wire), coil), &n)| match w.resistance_ohm {
+            Some(r20) => r20 * temperature_factor(c.hot_c) / n as f64,
+            None => resistance_ohm(coil.mean_turn_mm / 1000.0, wire.area_mm2(), c.hot_c),
+        })
+        .collect()
+}
+
+/// The primary current from the power balance I·V = P_out + P_cu,out + P_core + I²·R_p; false when
+/// the primary's resistance cannot pass that power.
+fn primary_current(c: &Ctx, st: &State, r_hot: &[f64], v_turn: f64, core_w: f64) -> (f64, bool) {
+    let r_p = r_hot[c.p_idx];
+    let b = r_p / (st.n_p as f64 * st.n_p as f64);
+    let mut p_out = 0.0;
+    let mut p_cu_out = 0.0;
+    for (i, w) in c.job.windings.iter().enumerate() {
+        if i == c.p_idx {
+            continue;
+        }
+        let n = st.turns[i] as f64;
+        let vfl = n * v_turn - w.amps * (r_hot[i] + b * n * n);
+        p_out += vfl.max(0.0) * w.amps;
+        p_cu_out += w.amps * w.amps * r_hot[i];
+    }
+    let need = p_out + p_cu_out + core_w;
+    let v = c.v_p_rms;
+    let disc = v * v - 4.0 * r_p * need;
+    let i_p = if r_p <= 0.0 {
+        need / v
+    } else if disc >= 0.0 {
+        2.0 * need / (v + disc.sqrt())
+    } else {
+        v / (2.0 * r_p)
+    };
+    (i_p, disc >= 0.0)
+}
+
+/// New turns: a kept output sets N_p; every other output the smallest N reaching its target. Also
+/// the most each output can deliver.
+fn next_turns(
+    c: &Ctx,
+    st: &State,
+    per_turn: &[f64],
+    r_hot: &[f64],
+    v_turn: f64,
+) -> (Vec<u32>, u32, Vec<Option<f64>>) {
+    let job = c.job;
+    let mut turns = st.turns.clone();
+    let mut max_fl = vec![None; job.windings.len()];
+    let mut new_np = st.n_p;
+    if let Some(k) = c.kept_output() {
+        // The kept output sets N_p: largest N_p with N_k·V/N_p − I_k(R_k + r_p·N_k²/N_p) ≥ V_k.
+        let wk = &job.windings[k];
+        let nk = st.turns[k] as f64;
+        let num = nk * c.v_p_rms - wk.amps * per_turn[c.p_idx] * nk * nk;
+        let den = wk.volts + wk.amps * r_hot[k];
+        new_np = if num > 0.0 {
+            ((num / den * (1.0 + 1e-12)).floor().clamp(1.0, 1e7)) as u32
+        } else {
+            1
+        };
+        turns[c.p_idx] = new_np;
+    }
+    let b = r_hot[c.p_idx] / (st.n_p as f64 * st.n_p as f64);
+    for (i, w) in job.windings.iter().enumerate() {
+        if i == c.p_idx {
+            continue;
+        }
+        let a = per_turn[i];
+        let lin = v_turn - w.amps * a;
+        let fl = |x: f64| x * v_turn - w.amps * (a * x + b * x * x);
+        max_fl[i] = Some(if b > 0.0 && w.amps > 0.0 {
+            fl((lin / (2.0 * w.amps * b)).round().max(1.0))
+        } else {
+            f64::INFINITY
+        });
+        if !w.kept {
+            turns[i] = smallest_turns(w.volts, v_turn, w.amps, a, b)
+                .0
+                .min(10_000_000);
+        }
+    }
+    (turns, new_np, max_fl)
+}
+
+/// One round of the fixed-point loop: wires from the currents, layout, resistances, the primary
+/// current, and the turns that follow from them.
+fn one_round(c: &Ctx, st: &mut State) -> (Round, Next) {
+    let job = c.job;
+    let (f, ae) = (job.frequency_hz, c.g.area_net_mm2);
+    let flux = job.waveform.flux_t(c.primary().volts, f, st.n_p as f64, ae);
+    let v_turn = c.v_p_rms / st.n_p as f64;
+    let core_w = core_loss_w(c.g.mass_kg, job.steel.loss_w_per_kg_1t5, flux, f);
+    st.wires = choose_wires(c, st.primary_amps);
+    let lay = lay_out(c, st);
+    let per_turn = hot_per_turn(c, st, &lay);
+    let r_hot: Vec<f64> = per_turn
+        .iter()
+        .zip(&st.turns)
+        .map(|(r, &n)| r * n as f64)
+        .collect();
+    let (i_p, primary_ok) = primary_current(c, st, &r_hot, v_turn, core_w);
+    let (turns, n_p, max_fl) = next_turns(c, st, &per_turn, &r_hot, v_turn);
+    let round = Round {
+        lay,
+        r_hot,
+        core_w,
+        flux,
+        v_turn,
+        max_fl,
+        primary_ok,
+    };
+    (
+        round,
+        Next {
+            turns,
+            n_p,
+            primary_amps: i_p,
+        },
+    )
+}
+
+/// Runs rounds until nothing changes. A state that repeats (a wire size or a layer flipping at a
+/// boundary) settles on the turns that meet every target — the larger output, the smaller primary
+/// under a kept output — and is evaluated once more, so every figure belongs to one layout.
+fn settle(c: &Ctx, st: &mut State) -> Round {
     let mut seen: Vec<(Vec<u32>, u64)> = Vec::new();
-    let mut lay: Layout;
-    let mut r_hot: Vec<f64>;
-    let mut core_w;
-    let mut flux;
-    let mut v_turn;
-    let mut max_fl: Vec<Option<f64>>;
-    let mut primary_ok;
     let mut iterations = 0;
     let mut final_pass = false;
     loop {
         iterations += 1;
-        flux = wf.flux_t(primary.volts, f, st.n_p as f64, ae);
-        v_turn = v_p_rms / st.n_p as f64;
-        core_w = core_loss_w(g.mass_kg, job.steel.loss_w_per_kg_1t5, flux, f);
-        // Wires from currents.
-        st.wires = job
-            .windings
-            .iter()
-            .enumerate()
-            .map(|(i, w)| {
-                let amps = if i == p_idx { st.primary_amps } else { w.amps };
-                choose(
-                    amps,
-                    job.current_density_a_mm2,
-                    job.system,
-                    job.grade,
-                    job.max_strand_mm,
-                    &w.wire,
-                )
-            })
-            .collect();
-        let coils: Vec<CoilInput> = job
-            .windings
-            .iter()
-            .zip(&st.wires)
-            .zip(&st.turns)
-            .map(|((w, wire), &n)| CoilInput {
-                turns: n,
-                strands: wire.strands,
-                traverse_mm: wire.conductor.traverse_mm(),
-                build_mm: wire.conductor.build_mm(),
-                area_mm2: wire.conductor.area_mm2(),
-                measured_build_mm: w.build_mm,
-                stacked: matches!(wire.conductor, Conductor::Strip { .. }),
-            })
-            .collect();
-        lay = layout(&job.core, &job.settings_layout(), &coils);
-        // Resistance per turn (hot) of each winding.
-        let per_turn: Vec<f64> = job
-            .windings
-            .iter()
-            .zip(&st.wires)
-            .zip(&lay.coils)
-            .zip(&st.turns)
-            .map(|(((w, wire), c), &n)| match w.resistance_ohm {
-                Some(r20) => r20 * temperature_factor(hot_c) / n as f64,
-                None => resistance_ohm(c.mean_turn_mm / 1000.0, wire.area_mm2(), hot_c),
-            })
-            .collect();
-        r_hot = per_turn
-            .iter()
-            .zip(&st.turns)
-            .map(|(r, &n)| r * n as f64)
-            .collect();
-        let r_p = r_hot[p_idx];
-        let b = r_p / (st.n_p as f64 * st.n_p as f64);
-        // Output full-load volts and power.
-        let mut p_out = 0.0;
-        let mut p_cu_out = 0.0;
-        for (i, w) in job.windings.iter().enumerate() {
-            if i == p_idx {
-                continue;
-            }
-            let n = st.turns[i] as f64;
-            let vfl = n * v_turn - w.amps * (r_hot[i] + b * n * n);
-            p_out += vfl.max(0.0) * w.amps;
-            p_cu_out += w.amps * w.amps * r_hot[i];
-        }
-        let need = p_out + p_cu_out + core_w;
-        let disc = v_p_rms * v_p_rms - 4.0 * r_p * need;
-        let i_p = if r_p <= 0.0 {
-            need / v_p_rms
-        } else if disc >= 0.0 {
-            2.0 * need / (v_p_rms + disc.sqrt())
-        } else {
-            v_p_rms / (2.0 * r_p)
-        };
-        primary_ok = disc >= 0.0;
-        // New turns.
-        let mut turns = st.turns.clone();
-        max_fl = vec![None; job.windings.len()];
-        let mut new_np = st.n_p;
-        if let Some(k) = kept_idx.filter(|&k| k != p_idx) {
-            // The kept output sets N_p: largest N_p with N_k·V/N_p − I_k(R_k + r_p·N_k²/N_p) ≥ V_k.
-            let wk = &job.windings[k];
-            let nk = st.turns[k] as f64;
-            let r_p_turn = per_turn[p_idx];
-            let num = nk * v_p_rms - wk.amps * r_p_turn * nk * nk;
-            let den = wk.volts + wk.amps * r_hot[k];
-            new_np = if num > 0.0 {
-                ((num / den * (1.0 + 1e-12)).floor().clamp(1.0, 1e7)) as u32
-            } else {
-                1
-            };
-            turns[p_idx] = new_np;
-        }
-        for (i, w) in job.windings.iter().enumerate() {
-            if i == p_idx {
-                continue;
-            }
-            let n = st.turns[i] as f64;
-            let a = per_turn[i];
-            let lin = v_turn - w.amps * a;
-            let peak = if b > 0.0 && w.amps > 0.0 {
-                lin / (2.0 * w.amps * b)
-            } else {
-                f64::INFINITY
-            };
-            let best_n = if peak.is_finite() {
-                peak.round().max(1.0)
-            } else {
-                n
-            };
-            let fl = |x: f64| x * v_turn - w.amps * (a * x + b * x * x);
-            max_fl[i] = Some(if peak.is_finite() {
-                fl(best_n)
-            } else {
-                f64::INFINITY
-            });
-            if w.kept {
-                continue;
-            }
-            let (ns, _ok) = smallest_turns(w.volts, v_turn, w.amps, a, b);
-            turns[i] = ns.min(10_000_000);
-        }
-        let key = (turns.clone(), (i_p * 1e6).round() as u64);
-        let settled = turns == st.turns && (i_p - st.primary_amps).abs() <= 1e-9 * i_p.max(1e-9);
+        let (round, next) = one_round(c, st);
+        let i_p = next.primary_amps;
+        let key = (next.turns.clone(), (i_p * 1e6).round() as u64);
+        let settled =
+            next.turns == st.turns && (i_p - st.primary_amps).abs() <= 1e-9 * i_p.max(1e-9);
         let repeat = seen.contains(&key);
         st.primary_amps = i_p;
         if settled || final_pass {
-            break;
+            return round;
         }
+        let mut turns = next.turns;
         if repeat || iterations >= 60 {
-            // A cycle (a wire size or a layer flipping at a boundary): settle on the turns that meet
-            // every target (the larger output counts, the smaller primary under a kept output) and
-            // evaluate that state once more, so every figure reported belongs to one layout.
-            for (i, w) in job.windings.iter().enumerate() {
-                if i != p_idx && !w.kept {
+            for (i, w) in c.job.windings.iter().enumerate() {
+                if i != c.p_idx && !w.kept {
                     turns[i] = turns[i].max(st.turns[i]);
                 }
             }
             st.turns = turns;
-            st.n_p = new_np.min(st.n_p);
-            st.turns[p_idx] = st.n_p;
+            st.n_p = next.n_p.min(st.n_p);
+            st.turns[c.p_idx] = st.n_p;
             final_pass = true;
             continue;
         }
         seen.push(key);
         st.turns = turns;
-        st.n_p = new_np;
+        st.n_p = next.n_p;
     }
+}
 
-    // Final figures from the settled state.
-    let r_p = r_hot[p_idx];
-    let b = r_p / (st.n_p as f64 * st.n_p as f64);
+/// Every winding's figures from the settled state; with the output power and the copper loss.
+fn winding_figures(c: &Ctx, st: &State, r: &Round) -> (Vec<WindingPlan>, f64, f64) {
+    let job = c.job;
+    let p_idx = c.p_idx;
+    let b = r.r_hot[p_idx] / (st.n_p as f64 * st.n_p as f64);
     let mut windings = Vec::with_capacity(job.windings.len());
-    let mut p_out = 0.0;
-    let mut p_cu = 0.0;
+    let (mut p_out, mut p_cu) = (0.0, 0.0);
     for (i, w) in job.windings.iter().enumerate() {
         let n = st.turns[i];
         let wire = st.wires[i].clone();
-        let mut coil = lay.coils[i].clone();
+        let mut coil = r.lay.coils[i].clone();
         coil.fill_checkpoints();
         let amps = if i == p_idx { st.primary_amps } else { w.amps };
         let length_m = n as f64 * coil.mean_turn_mm / 1000.0;
         let cut = length_m + 2.0 * job.lead_m;
-        let r = r_hot[i];
-        let cu = amps * amps * r;
+        let res = r.r_hot[i];
+        let cu = amps * amps * res;
         p_cu += cu;
         let (v_nl, v_fl) = if i == p_idx {
-            (v_p_rms, v_p_rms - amps * r)
+            (c.v_p_rms, c.v_p_rms - amps * res)
         } else {
             let nf = n as f64;
-            (nf * v_turn, nf * v_turn - w.amps * (r + b * nf * nf))
+            (nf * r.v_turn, nf * r.v_turn - w.amps * (res + b * nf * nf))
         };
         if i != p_idx {
             p_out += v_fl.max(0.0) * w.amps;
@@ -621,15 +673,17 @@ fn plan_with(job: &Job, words: bool) -> Plan {
         let taps = w
             .taps_volts
             .iter()
-            .map(|&tv| {
-                let a = r / n as f64;
-                let (t, _) = smallest_turns(tv, v_turn, w.amps, a, b);
-                Tap {
-                    volts: tv,
-                    turn: t.min(n),
-                }
+            .map(|&tv| Tap {
+                volts: tv,
+                turn: smallest_turns(tv, r.v_turn, w.amps, res / n as f64, b)
+                    .0
+                    .min(n),
             })
             .collect();
+        let grade_label = match &wire.conductor {
+            Conductor::Round(rs) => job.grade.label(rs.system),
+            Conductor::Strip { .. } => "strip, insulated",
+        };
         windings.push(WindingPlan {
             name: w.name.clone(),
             role: w.role,
@@ -638,242 +692,245 @@ fn plan_with(job: &Job, words: bool) -> Plan {
             volts: w.volts,
             amps,
             turns: n,
-            grade_label: grade_label(&wire),
+            grade_label,
             current_density_a_mm2: amps / wire.area_mm2(),
-            resistance_20c_ohm: r / temperature_factor(hot_c),
+            resistance_20c_ohm: res / temperature_factor(c.hot_c),
             copper_mass_g: copper_mass_g(cut, wire.area_mm2()),
             wire,
             coil,
             length_m,
             cut_length_m: cut,
-            resistance_ohm: r,
+            resistance_ohm: res,
             copper_loss_w: cu,
             volts_no_load: v_nl,
             volts_full_load: v_fl,
-            max_volts_full_load: if i == p_idx { None } else { max_fl[i] },
+            max_volts_full_load: if i == p_idx { None } else { r.max_fl[i] },
             taps,
         });
     }
+    (windings, p_out, p_cu)
+}
 
-    // Heating.
-    let total_build = lay.build_mm;
+/// The box around core and coil, and the rise from the time-averaged loss (McLyman).
+fn heating(c: &Ctx, r: &Round, p_cu: f64) -> Thermal {
+    let job = c.job;
+    let total_build = r.lay.build_mm;
     let (box_w, box_h) = match job.core.shape {
-        Shape::Ei => (g.outline_width_mm, g.outline_height_mm),
+        Shape::Ei => (c.g.outline_width_mm, c.g.outline_height_mm),
         Shape::Ui => (
             2.0 * job.core.tongue_mm + job.core.window_width_mm + 2.0 * total_build,
-            g.outline_height_mm,
+            c.g.outline_height_mm,
         ),
     };
     let surface = box_surface_cm2(box_w, box_h, job.core.stack_mm + 2.0 * total_build);
     // Intermittent load: the copper loss averaged over time; forced air: more surface, in effect.
-    let rise = rise_c(p_cu * job.load_duty + core_w, surface * job.cooling_factor);
+    let rise = rise_c(
+        p_cu * job.load_duty + r.core_w,
+        surface * job.cooling_factor,
+    );
+    Thermal {
+        surface_cm2: surface,
+        rise_c: rise,
+        ambient_c: job.ambient_c,
+        hot_c: job.ambient_c + rise,
+        resistance_at_c: c.hot_c,
+        max_rise_c: job.max_rise_c,
+    }
+}
 
-    // Drive extras.
-    let no_load = sweep.map(|s| no_load_amps(s, f, ae, flux, st.n_p));
-    let flux_vs_donor = test.as_ref().map(|(_, r)| flux / r.donor_flux_t);
+/// How a kept output's drive compares with the donor's sine flux.
+fn kept_output_note(c: &Ctx, r: &Round) -> Option<KeptOutputNote> {
+    let (k, (_, t)) = (c.kept_output()?, c.test.as_ref()?);
+    Some(KeptOutputNote {
+        winding: c.job.windings[k].name.clone(),
+        waveform: c.job.waveform,
+        volts_per_turn: r.v_turn,
+        flux_t: r.flux,
+        donor_flux_t: t.donor_flux_t,
+    })
+}
 
-    // Warnings.
-    if let (Some(rep), Some(knee)) = (&sweep_rep, sweep_rep.as_ref().and_then(|r| r.knee_flux_t)) {
-        let rec = rep.recommended_flux_t.unwrap_or(knee);
+/// Warnings found once the plan has settled, in the order a person reads them.
+fn late_warnings(
+    c: &Ctx,
+    r: &Round,
+    windings: &[WindingPlan],
+    primary_amps: f64,
+    w: &mut Vec<Warning>,
+) {
+    let flux = r.flux;
+    if let Some(knee) = c.sweep_rep.as_ref().and_then(|s| s.knee_flux_t) {
+        let rec = c.recommended.unwrap_or(knee);
         if flux > rec * (1.0 + 1e-9) {
-            warnings.push(say!(
-                "planned flux {flux:.2} T is above the knee margin {rec:.2} T (0.9 × the IEC knee {knee:.2} T): the idle current will be high and the core may saturate"
-            ));
+            w.push(Warning::FluxAboveKneeMargin {
+                flux_t: flux,
+                margin_t: rec,
+                knee_t: knee,
+            });
         }
     }
-    if let (Some((_, r)), None) = (&test, kept_idx) {
-        if flux > r.donor_flux_t * (1.0 + 1e-9) {
-            warnings.push(say!(
-                "planned flux {flux:.2} T is above the {:.2} T the donor ran at",
-                r.donor_flux_t
-            ));
+    if let (Some((_, t)), None) = (&c.test, c.kept_idx) {
+        if flux > t.donor_flux_t * (1.0 + 1e-9) {
+            w.push(Warning::FluxAboveDonor {
+                flux_t: flux,
+                donor_t: t.donor_flux_t,
+            });
         }
     }
-    let mut kept_note = None;
-    if let (Some(k), Some((_, r))) = (kept_idx.filter(|&k| k != p_idx), &test) {
-        let ratio = flux / r.donor_flux_t;
-        let note = match wf {
-            Waveform::Sine => format!(
-                "kept output \"{}\": sine drive at {:.4} V per turn; the core runs at {flux:.3} T against the donor's {:.3} T (×{ratio:.3})",
-                job.windings[k].name, v_turn, r.donor_flux_t
-            ),
-            _ => format!(
-                "kept output \"{}\": a square drive at the donor's RMS volts per turn runs the core at 4.443/4 = 1.11 × the sine flux it was built for{}; here {flux:.3} T against the donor's {:.3} T (×{ratio:.3})",
-                job.windings[k].name,
-                match wf {
-                    Waveform::QuasiSquare { duty } => format!(", times √δ = {:.3} for quasi-square at duty {duty}", duty.sqrt()),
-                    _ => String::new(),
-                },
-                r.donor_flux_t
-            ),
-        };
-        let knee_known = sweep_rep
-            .as_ref()
-            .and_then(|s| s.recommended_flux_t)
-            .is_some();
-        if !knee_known && ratio > 1.0 + 1e-9 {
-            warnings.push(say!(
-                "the core runs at {ratio:.2} × the flux the donor was built for and no sweep shows the knee margin: sweep the kept winding before relying on it"
-            ));
-        }
-        kept_note = Some(note);
-    }
-    if lay.copper_fill > HAND_FILL_LIMIT {
-        warnings.push(say!(
-            "copper fill {:.2} is above {HAND_FILL_LIMIT:.2} (McLyman's window utilisation): hard to wind by hand",
-            lay.copper_fill
-        ));
-    }
-    if st.primary_amps > HIGH_CURRENT_A {
-        warnings.push(say!(
-            "the primary draws {:.0} A at full load: use parallel strands or strip, and thick, short leads",
-            st.primary_amps
-        ));
-    }
-    if matches!(wf, Waveform::Square | Waveform::QuasiSquare { .. }) {
-        warnings.push("square and quasi-square drives add eddy loss and harmonics the core-loss estimate leaves out; fuse for the bridge's peak current".to_string());
-    }
-    for w in &windings {
-        if w.wire.strands > 1
-            && matches!(w.wire.conductor, Conductor::Round(_))
-            && w.wire.strands > 8
-        {
-            warnings.push(say!(
-                "\"{}\" needs {} strands in hand: consider strip conductor (strip_mm)",
-                w.name,
-                w.wire.strands
-            ));
+    if let (Some(_), Some((_, t))) = (c.kept_output(), &c.test) {
+        let ratio = flux / t.donor_flux_t;
+        if c.recommended.is_none() && ratio > 1.0 + 1e-9 {
+            w.push(Warning::KeptOutputAboveDonor { ratio });
         }
     }
+    if r.lay.copper_fill > HAND_FILL_LIMIT {
+        w.push(Warning::HardToWind {
+            copper_fill: r.lay.copper_fill,
+            limit: HAND_FILL_LIMIT,
+        });
+    }
+    if primary_amps > HIGH_CURRENT_A {
+        w.push(Warning::HighPrimaryCurrent { amps: primary_amps });
+    }
+    if matches!(
+        c.job.waveform,
+        Waveform::Square | Waveform::QuasiSquare { .. }
+    ) {
+        w.push(Warning::SquareDrive);
+    }
+    for wp in windings {
+        if matches!(wp.wire.conductor, Conductor::Round(_)) && wp.wire.strands > 8 {
+            w.push(Warning::ManyStrands {
+                winding: wp.name.clone(),
+                strands: wp.wire.strands,
+            });
+        }
+    }
+}
 
-    // Verdict.
-    let mut checks = Vec::new();
-    checks.push(Check {
-        name: "flux".to_string(),
-        ok: flux <= flux_limit * (1.0 + 1e-9),
-        detail: say!("{flux:.3} T peak, limit {flux_limit:.2} T ({source})"),
-    });
-    checks.push(Check {
-        name: "window".to_string(),
-        ok: lay.fits,
-        detail: if lay.coils.iter().any(|c| c.turns_per_layer == 0) {
-            "a winding cannot get a single turn on a layer".to_string()
-        } else {
-            say!(
-                "build {:.2} mm of {:.2} mm available; copper fill {:.2}",
-                lay.build_mm,
-                lay.available_mm,
-                lay.copper_fill
-            )
+/// The checks of the verdict, in their fixed order.
+fn checks(
+    c: &Ctx,
+    r: &Round,
+    windings: &[WindingPlan],
+    thermal: &Thermal,
+    primary_amps: f64,
+) -> Vec<Check> {
+    let job = c.job;
+    let flux_limit = c.design_flux.min(MAX_FLUX_T);
+    let mut checks = vec![
+        Check {
+            ok: r.flux <= flux_limit * (1.0 + 1e-9),
+            figures: CheckFigures::Flux {
+                flux_t: r.flux,
+                limit_t: flux_limit,
+                source: c.source.clone(),
+            },
         },
-    });
-    checks.push(Check {
-        name: "heating".to_string(),
-        ok: rise <= job.max_rise_c * (1.0 + 1e-9),
-        detail: say!("rise {rise:.1} °C, limit {:.0} °C", job.max_rise_c),
-    });
+        Check {
+            ok: r.lay.fits,
+            figures: CheckFigures::Window {
+                build_mm: r.lay.build_mm,
+                available_mm: r.lay.available_mm,
+                copper_fill: r.lay.copper_fill,
+                no_turn_fits: r.lay.coils.iter().any(|co| co.turns_per_layer == 0),
+            },
+        },
+        Check {
+            ok: thermal.rise_c <= job.max_rise_c * (1.0 + 1e-9),
+            figures: CheckFigures::Heating {
+                rise_c: thermal.rise_c,
+                limit_c: job.max_rise_c,
+            },
+        },
+    ];
     let worst_j = windings
         .iter()
         .filter(|w| w.resistance_ohm_measured(job).is_none())
         .map(|w| (w.current_density_a_mm2, w.name.as_str()))
         .fold((0.0, ""), |acc, x| if x.0 > acc.0 { x } else { acc });
     checks.push(Check {
-        name: "current density".to_string(),
         ok: worst_j.0 <= job.current_density_a_mm2 * (1.0 + 1e-9),
-        detail: say!(
-            "highest {:.2} A/mm² (\"{}\"), limit {:.2} A/mm²",
-            worst_j.0,
-            worst_j.1,
-            job.current_density_a_mm2
-        ),
-    });
-    checks.push(Check {
-        name: "primary current".to_string(),
-        ok: primary_ok,
-        detail: if primary_ok {
-            say!("{:.2} A at full load", st.primary_amps)
-        } else {
-            "the primary's resistance is too high to pass the load's power".to_string()
+        figures: CheckFigures::CurrentDensity {
+            highest_a_mm2: worst_j.0,
+            winding: worst_j.1.to_string(),
+            limit_a_mm2: job.current_density_a_mm2,
         },
     });
+    checks.push(Check {
+        ok: r.primary_ok,
+        figures: CheckFigures::PrimaryCurrent { amps: primary_amps },
+    });
     for w in windings.iter().filter(|w| w.role == Role::Secondary) {
-        let ok = w.volts_full_load >= w.volts * (1.0 - 1e-9);
         checks.push(Check {
-            name: format!("output {}", w.name),
-            ok,
-            detail: if ok {
-                say!(
-                    "{:.2} V at {:.2} A (target {:.2} V)",
-                    w.volts_full_load,
-                    w.amps,
-                    w.volts
-                )
-            } else {
-                say!(
-                    "{:.2} V at {:.2} A, short of {:.2} V; the most it can deliver is {:.2} V",
-                    w.volts_full_load,
-                    w.amps,
-                    w.volts,
-                    w.max_volts_full_load.unwrap_or(w.volts_full_load).min(1e9)
-                )
+            ok: w.volts_full_load >= w.volts * (1.0 - 1e-9),
+            figures: CheckFigures::Output {
+                winding: w.name.clone(),
+                volts_full_load: w.volts_full_load,
+                amps: w.amps,
+                target_volts: w.volts,
+                max_volts: w.max_volts_full_load,
             },
         });
     }
-    let ok = checks.iter().all(|c| c.ok);
+    checks
+}
 
+/// Plans a job. Never fails on a checked job: a design that does not work is a verdict.
+pub fn plan(job: &Job) -> Plan {
+    let mut warnings = Vec::new();
+    let c = Ctx::new(job, &mut warnings);
+    let mut st = initial_state(&c);
+    let r = settle(&c, &mut st);
+    let (windings, p_out, p_cu) = winding_figures(&c, &st, &r);
+    let thermal = heating(&c, &r, p_cu);
+    late_warnings(&c, &r, &windings, st.primary_amps, &mut warnings);
+    let verdict = Verdict::new(checks(&c, &r, &windings, &thermal, st.primary_amps));
+    let (f, ae) = (job.frequency_hz, c.g.area_net_mm2);
     let probe = job.probe.as_ref().map(|_| ProbePlan {
-        volts_per_turn: v_meas,
-        donor_flux_t: test.as_ref().map(|(_, r)| r.donor_flux_t),
-        knee_volts: sweep_rep.as_ref().and_then(|r| r.knee_volts),
-        knee_flux_t: sweep_rep.as_ref().and_then(|r| r.knee_flux_t),
-        tangent_flux_t: sweep_rep.as_ref().and_then(|r| r.tangent_flux_t),
-        recommended_flux_t: recommended,
+        volts_per_turn: c.v_meas(),
+        donor_flux_t: c.test.as_ref().map(|(_, t)| t.donor_flux_t),
+        knee_volts: c.sweep_rep.as_ref().and_then(|s| s.knee_volts),
+        knee_flux_t: c.sweep_rep.as_ref().and_then(|s| s.knee_flux_t),
+        tangent_flux_t: c.sweep_rep.as_ref().and_then(|s| s.tangent_flux_t),
+        recommended_flux_t: c.recommended,
     });
-
     Plan {
         name: job.name.clone(),
         core: job.core.clone(),
-        geometry: g,
         steel: job.steel.clone(),
         drive: Drive {
             frequency_hz: f,
-            waveform: wf,
-            flux_density_t: flux,
-            design_flux_t: design_flux,
-            flux_source: source,
-            flux_limit_t: flux_limit,
-            volts_per_turn: v_turn,
-            primary_rms_volts: v_p_rms,
+            waveform: job.waveform,
+            flux_density_t: r.flux,
+            design_flux_t: c.design_flux,
+            flux_source: c.source.clone(),
+            flux_limit_t: c.design_flux.min(MAX_FLUX_T),
+            volts_per_turn: r.v_turn,
+            primary_rms_volts: c.v_p_rms,
             primary_amps: st.primary_amps,
-            no_load_amps: no_load,
-            flux_vs_donor,
-            kept_output_note: kept_note,
+            no_load_amps: c.sweep.map(|s| no_load_amps(s, f, ae, r.flux, st.n_p)),
+            flux_vs_donor: c.test.as_ref().map(|(_, t)| r.flux / t.donor_flux_t),
+            kept_output_note: kept_output_note(&c, &r),
         },
         windings,
         window: WindowPlan {
-            copper_fill: lay.copper_fill,
-            build_mm: lay.build_mm,
-            available_mm: lay.available_mm,
-            traverse_mm: lay.traverse_mm,
-            fits: lay.fits,
+            copper_fill: r.lay.copper_fill,
+            build_mm: r.lay.build_mm,
+            available_mm: r.lay.available_mm,
+            traverse_mm: r.lay.traverse_mm,
+            fits: r.lay.fits,
         },
         losses: LossPlan {
-            core_w,
+            core_w: r.core_w,
             copper_w: p_cu,
             output_w: p_out,
-            efficiency: efficiency(p_out, p_cu, core_w),
+            efficiency: efficiency(p_out, p_cu, r.core_w),
             regulation_pct: regulation_pct(p_out, p_cu),
         },
-        thermal: Thermal {
-            surface_cm2: surface,
-            rise_c: rise,
-            ambient_c: job.ambient_c,
-            hot_c: job.ambient_c + rise,
-            resistance_at_c: hot_c,
-            max_rise_c: job.max_rise_c,
-        },
+        thermal,
         probe,
-        verdict: Verdict { ok, checks },
+        verdict,
         warnings,
         cautions: CAUTIONS,
         current_density_limit_a_mm2: job.current_density_a_mm2,
@@ -882,6 +939,7 @@ fn plan_with(job: &Job, words: bool) -> Plan {
         system: job.system,
         grade: job.grade,
         max_strand_mm: job.max_strand_mm,
+        geometry: c.g,
     }
 }
 

@@ -11,8 +11,9 @@
 //! practice); below 0.5 T a stack or area measurement is probably wrong (common practice).
 
 use crate::error::{Error, Result};
-use crate::job::{Checker, WindingSpec};
+use crate::input::Checker;
 use crate::magnetics::{ExcitationCurve, Knees, KNEE_MARGIN, K_SINE};
+use crate::verdict::Warning;
 use serde::Serialize;
 
 /// Flux above which a donor is said to have been run hard, T (common practice).
@@ -111,14 +112,13 @@ impl PartialEq for ProbeInput {
 pub fn check_probe_table(
     c: &Checker,
     rp: RawProbeInput,
-    windings: &[WindingSpec],
+    windings: &[&str],
     load_sweep: SweepLoader,
 ) -> Result<ProbeInput> {
     let known = |field: &str, name: &Option<String>| -> Result<()> {
         if let Some(n) = name {
-            if !windings.iter().any(|w| &w.name == n) {
-                let names: Vec<String> =
-                    windings.iter().map(|w| format!("\"{}\"", w.name)).collect();
+            if !windings.iter().any(|w| w == n) {
+                let names: Vec<String> = windings.iter().map(|w| format!("\"{w}\"")).collect();
                 return Err(c.fail(
                     field,
                     format!("\"{n}\""),
@@ -322,17 +322,16 @@ pub fn test_report(t: &TestWinding, freq_hz: f64, area_net_mm2: f64) -> TestRepo
 }
 
 /// Warnings about a donor flux.
-pub fn donor_flux_notes(b: f64) -> Vec<String> {
+pub fn donor_flux_notes(b: f64) -> Vec<Warning> {
     let mut w = Vec::new();
     if b > HARD_DONOR_T {
-        w.push(format!(
-            "the donor ran at {b:.2} T, above the {HARD_DONOR_T:.1} T salvaged steel normally takes: it was run hard (as microwave-oven cores are); plan lower"
-        ));
+        w.push(Warning::DonorRunHard {
+            flux_t: b,
+            hard_t: HARD_DONOR_T,
+        });
     }
     if b < IMPLAUSIBLE_LOW_T {
-        w.push(format!(
-            "the donor's flux works out at only {b:.2} T: check the stack and tongue measurements and the test-winding reading"
-        ));
+        w.push(Warning::DonorFluxImplausible { flux_t: b });
     }
     w
 }
@@ -413,7 +412,7 @@ pub fn no_load_amps(sweep: &Sweep, freq_hz: f64, area_net_mm2: f64, b_t: f64, tu
 
 /// Everything `ironwind probe` reports.
 #[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct ProbeRun {
+pub struct ProbeReport {
     /// Frequency, Hz.
     pub frequency_hz: f64,
     /// Net iron area used, mm².
@@ -445,7 +444,8 @@ pub struct ProbeRun {
     /// Recommended maximum flux, T.
     pub recommended_flux_t: Option<f64>,
     /// Warnings and notes.
-    pub warnings: Vec<String>,
+    #[serde(skip)]
+    pub warnings: Vec<Warning>,
 }
 
 /// Runs the analyses a person asked for.
@@ -456,7 +456,7 @@ pub fn probe_run(
     area_net_mm2: f64,
     path_mm: f64,
     path_estimated: bool,
-) -> ProbeRun {
+) -> ProbeReport {
     let t = test.map(|t| test_report(t, freq_hz, area_net_mm2));
     let s = sweep.map(|(c, n)| sweep_report(c, c.knees(), n, freq_hz, area_net_mm2, path_mm));
     let mut warnings = Vec::new();
@@ -465,27 +465,24 @@ pub fn probe_run(
     }
     if let Some(r) = &s {
         if r.knee_volts.is_none() {
-            warnings.push("the sweep does not reach the IEC knee (10 % more volts never gave 50 % more current inside it): sweep higher".to_string());
+            warnings.push(Warning::SweepBelowKnee { in_plan: false });
         }
         if r.tangent_volts.is_none() {
-            warnings.push(
-                "the log-log slope never crosses 45° inside the sweep: no tangent point"
-                    .to_string(),
-            );
+            warnings.push(Warning::NoTangentPoint);
         }
         if let (Some(rec), Some(tr)) = (r.recommended_flux_t, &t) {
             if tr.donor_flux_t > rec {
-                warnings.push(format!(
-                    "the donor ran at {:.2} T, above the sweep's recommended {:.2} T",
-                    tr.donor_flux_t, rec
-                ));
+                warnings.push(Warning::DonorAboveRecommended {
+                    donor_t: tr.donor_flux_t,
+                    recommended_t: rec,
+                });
             }
         }
     }
     if path_estimated && s.is_some() {
-        warnings.push("no --window given: the path length for the field strength assumes scrapless E-I proportions".to_string());
+        warnings.push(Warning::PathLengthEstimated);
     }
-    ProbeRun {
+    ProbeReport {
         frequency_hz: freq_hz,
         area_net_mm2,
         path_length_mm: path_mm,
@@ -503,59 +500,6 @@ pub fn probe_run(
         recommended_flux_t: s.as_ref().and_then(|r| r.recommended_flux_t),
         warnings,
     }
-}
-
-/// The sweep as a log-log SVG chart: the curve, both knees and the recommended operating point.
-pub fn sweep_plot(run: &ProbeRun) -> String {
-    use crate::render::svg::{chart, Chart, Marker, Scale, Series};
-    let vpt = run
-        .points
-        .first()
-        .map(|p| p.volts / p.flux_t)
-        .unwrap_or(1.0);
-    let mut markers = Vec::new();
-    if let (Some(v), Some(b)) = (run.knee_volts, run.knee_flux_t) {
-        markers.push(Marker {
-            x: v,
-            label: format!("IEC knee {v:.1} V, {b:.2} T"),
-            dash: "8 4",
-        });
-    }
-    if let (Some(v), Some(b)) = (run.tangent_volts, run.tangent_flux_t) {
-        markers.push(Marker {
-            x: v,
-            label: format!("45° tangent {v:.1} V, {b:.2} T"),
-            dash: "2 3",
-        });
-    }
-    if let Some(b) = run.recommended_flux_t {
-        markers.push(Marker {
-            x: b * vpt,
-            label: format!("recommended max {b:.2} T"),
-            dash: "",
-        });
-    }
-    chart(&Chart {
-        title: format!(
-            "Magnetisation sweep, {} turns, {} Hz",
-            run.sweep_turns.unwrap_or(0),
-            run.frequency_hz
-        ),
-        x_label: "winding voltage (V RMS), log scale".into(),
-        y_label: "exciting current (A RMS), log scale".into(),
-        y2_label: None,
-        x_scale: Scale::Log,
-        y_scale: Scale::Log,
-        series: vec![Series {
-            label: "measured".into(),
-            points: run.points.iter().map(|p| (p.volts, p.amps)).collect(),
-            dots: true,
-            dash: "",
-            colour: "#1f4e79",
-            right_axis: false,
-        }],
-        markers,
-    })
 }
 
 #[cfg(test)]
@@ -596,7 +540,10 @@ mod tests {
         let r = test_report(&t, 50.0, 38.0 * 62.0 * 0.95);
         assert!(r.donor_flux_t > HARD_DONOR_T);
         assert_eq!(donor_flux_notes(r.donor_flux_t).len(), 1);
-        assert!(donor_flux_notes(0.2)[0].contains("check the stack"));
+        assert!(matches!(
+            donor_flux_notes(0.2)[0],
+            Warning::DonorFluxImplausible { .. }
+        ));
     }
 
     #[test]

@@ -17,7 +17,7 @@ use crate::geometry::{default_leg_yoke, CoreDims, Shape};
 use crate::job::{Job, Role};
 use crate::losses::loss_for_rise_w;
 use crate::magnetics::steel_info;
-use crate::plan::plan_lean;
+use crate::plan::plan;
 use rust_decimal::prelude::ToPrimitive;
 use rust_decimal::Decimal;
 use serde::Serialize;
@@ -582,7 +582,7 @@ pub fn rank_one(job: &mut Job, e: &Entry, v: &CoreValues) -> Ranked {
     if let Ok(s) = steel_info(&v.steel) {
         job.steel = s;
     }
-    let p = plan_lean(job);
+    let p = plan(job);
     let t = &p.thermal;
     let allowed = loss_for_rise_w(t.max_rise_c, t.surface_cm2 * job.cooling_factor);
     let p_cu = p.losses.copper_w * job.load_duty;
@@ -686,6 +686,109 @@ pub fn job_va(job: &Job) -> f64 {
         .filter(|w| w.role == Role::Secondary)
         .map(|w| w.volts * w.amps)
         .sum()
+}
+
+/// How `shelf list` orders the cores.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SortKey {
+    /// By id.
+    Id,
+    /// Largest area product first.
+    AreaProduct,
+    /// Heaviest first.
+    Mass,
+    /// Oldest first.
+    Date,
+}
+
+/// One core as listed: its row, its values and its geometry.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Listed {
+    /// The row as typed.
+    pub entry: Entry,
+    /// Its values.
+    pub values: CoreValues,
+    /// Its geometry.
+    pub geometry: crate::geometry::CoreGeometry,
+}
+
+/// What `shelf list` (and `show`, `export`) report: the cores in order, and the rows that do not read.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Listing {
+    /// The shelf file, for the count line.
+    pub origin: String,
+    /// The cores, in the order asked for.
+    pub cores: Vec<Listed>,
+    /// Rows that could not be read.
+    pub bad: Vec<BadRow>,
+}
+
+/// The shelf's cores in the order asked for (ties by id).
+pub fn listing(origin: &str, shelf: &Shelf, sort: SortKey) -> Listing {
+    let mut cores: Vec<Listed> = shelf
+        .entries
+        .iter()
+        .map(|(e, v)| Listed {
+            entry: e.clone(),
+            values: v.clone(),
+            geometry: crate::geometry::geometry(&v.dims),
+        })
+        .collect();
+    let by_id = |a: &Listed, b: &Listed| a.entry.id.cmp(&b.entry.id);
+    match sort {
+        SortKey::Id => cores.sort_by(by_id),
+        SortKey::AreaProduct => cores.sort_by(|a, b| {
+            b.geometry
+                .area_product_cm4
+                .total_cmp(&a.geometry.area_product_cm4)
+                .then(by_id(a, b))
+        }),
+        SortKey::Mass => cores.sort_by(|a, b| {
+            b.geometry
+                .mass_kg
+                .total_cmp(&a.geometry.mass_kg)
+                .then(by_id(a, b))
+        }),
+        SortKey::Date => cores.sort_by(|a, b| a.entry.added.cmp(&b.entry.added).then(by_id(a, b))),
+    }
+    Listing {
+        origin: origin.to_string(),
+        cores,
+        bad: shelf.bad.clone(),
+    }
+}
+
+/// What `shelf rank` reports.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Ranking {
+    /// The job's name.
+    pub job: String,
+    /// The job's output VA.
+    pub job_va: f64,
+    /// Cores on the shelf.
+    pub total: usize,
+    /// The cores, best first (cut to the top N when asked).
+    pub ranked: Vec<Ranked>,
+}
+
+/// Ranks the shelf for a job, keeping the best `top`.
+pub fn ranking(
+    job: &Job,
+    shelf: &Shelf,
+    top: Option<usize>,
+    threads: usize,
+    progress: &(dyn Fn(usize) + Sync),
+) -> Ranking {
+    let mut ranked = rank(job, &shelf.entries, threads, progress);
+    if let Some(n) = top {
+        ranked.truncate(n);
+    }
+    Ranking {
+        job: job.name.clone(),
+        job_va: job_va(job),
+        total: shelf.entries.len(),
+        ranked,
+    }
 }
 
 #[cfg(test)]

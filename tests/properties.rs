@@ -8,6 +8,7 @@ use ironwind::job::{parse_job, Job};
 use ironwind::losses::rise_c;
 use ironwind::plan::plan;
 use ironwind::render::json::{plan_json, DEFAULT_SPARE};
+use ironwind::verdict::CheckKind;
 use ironwind::wire::{choose, Grade, System, WireRequest};
 use proptest::prelude::*;
 
@@ -164,7 +165,7 @@ proptest! {
         let p = plan(&job(&toml_of(&g)));
         let v = serde_json::to_value(plan_json(&p, DEFAULT_SPARE)).expect("json");
         check_finite(&v, "plan");
-        let text = ironwind::render::text::plan_text(&p, ironwind::render::Look::default());
+        let text = ironwind::render::plan::plan_text(&p, ironwind::render::Look::default());
         prop_assert!(!text.contains("NaN") && !text.contains("inf") && !text.contains("n/a"), "{}", text);
     }
 
@@ -198,7 +199,7 @@ proptest! {
         let narrow = plan(&job(&toml_of(&g)));
         // Designs that work electrically (outputs reach their volts): where a load is far beyond the
         // core, the output turns are those of a failed design and the fit says little.
-        prop_assume!(narrow.verdict.checks.iter().filter(|c| c.name.starts_with("output") || c.name == "primary current").all(|c| c.ok));
+        prop_assume!(narrow.verdict.checks.iter().filter(|c| matches!(c.kind(), CheckKind::Output | CheckKind::PrimaryCurrent)).all(|c| c.ok));
         let wide = plan(&job(&toml_of(&Gen { ww: g.ww * k, ..g.clone() })));
         prop_assert!(!narrow.window.fits || wide.window.fits);
     }

@@ -13,7 +13,7 @@ fuzz_target!(|data: &[u8]| {
         let plan = ironwind::plan::plan(&job);
         let _ = ironwind::plan::check_windable(&plan, "fuzz.toml");
         let mut out = Vec::new();
-        let _ = ironwind::render::text::write_plan(&mut out, &plan, ironwind::render::Look::default());
+        let _ = ironwind::render::plan::write(&mut out, &plan, ironwind::render::Format::Text, &ironwind::render::Look::default());
         let _ = ironwind::render::json::write_plan(&mut out, &plan);
         let _ = ironwind::render::csv::write_schedule(&mut out, &plan);
         let opts = ironwind::render::card::CardOptions::default();

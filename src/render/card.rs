@@ -7,7 +7,7 @@
 
 use super::json::{buy_list, BuyRow};
 use super::svg::esc;
-use super::{num, sig3};
+use super::{num, sig3, words, Charset, Format, Look};
 use crate::geometry::Shape;
 use crate::job::Role;
 use crate::plan::{Plan, WindingPlan};
@@ -19,26 +19,40 @@ use std::fmt::Write as _;
 pub struct CardOptions {
     /// Spare allowance on the buy list, fraction (0.10 = 10 %).
     pub spare: f64,
-    /// Plain ASCII text.
-    pub ascii: bool,
-    /// Bold headings with ANSI escapes (text on a terminal only).
-    pub color: bool,
-    /// Units shown first.
-    pub units: super::Units,
+    /// Characters, units, colour (bold headings on a terminal) and width.
+    pub look: Look,
 }
 
 impl Default for CardOptions {
     fn default() -> Self {
         CardOptions {
             spare: 0.10,
-            ascii: false,
-            color: false,
-            units: super::Units::Metric,
+            look: Look::default(),
         }
     }
 }
 
-const WIDTH: usize = 80;
+impl CardOptions {
+    fn ascii(&self) -> bool {
+        self.look.charset == Charset::Ascii
+    }
+}
+
+/// Writes the card in a format: text (the default), Markdown, HTML or SVG.
+pub fn write(
+    out: &mut dyn std::io::Write,
+    p: &Plan,
+    format: Format,
+    o: &CardOptions,
+) -> std::io::Result<()> {
+    let text = match format {
+        Format::Markdown => markdown_card(p, o),
+        Format::Html => html_card(p, o),
+        Format::Svg => svg_card(p),
+        _ => text_card(p, o),
+    };
+    out.write_all(text.as_bytes())
+}
 
 /// Wraps `text` to `width` columns with `indent` on continuation lines.
 pub fn wrap(text: &str, width: usize, first: &str, indent: &str) -> String {
@@ -266,36 +280,32 @@ fn tap_text(w: &WindingPlan) -> Option<String> {
     })
 }
 
-/// The text card: at most 80 columns.
+/// The text card: within the look's width (80 columns).
 pub fn text_card(p: &Plan, o: &CardOptions) -> String {
+    let width = o.look.width;
     let bold = |s: &str| {
-        if o.color && !o.ascii {
+        if o.look.color && !o.ascii() {
             format!("\x1b[1m{s}\x1b[0m")
         } else {
             s.to_string()
         }
     };
-    let rule = if o.ascii {
-        "=".repeat(WIDTH)
+    let (rule, thin) = if o.ascii() {
+        ("=".repeat(width), "-".repeat(width))
     } else {
-        "═".repeat(WIDTH)
-    };
-    let thin = if o.ascii {
-        "-".repeat(WIDTH)
-    } else {
-        "─".repeat(WIDTH)
+        ("═".repeat(width), "─".repeat(width))
     };
     let mut s = String::new();
     s += &rule;
     s += "\n";
-    s += &wrap(&format!("WINDING CARD: {}", p.name), WIDTH, "", "  ");
-    s += &wrap(&core_line(p, o.units), WIDTH, "", "  ");
-    s += &wrap(&drive_line(p), WIDTH, "", "  ");
+    s += &wrap(&format!("WINDING CARD: {}", p.name), width, "", "  ");
+    s += &wrap(&core_line(p, o.look.units), width, "", "  ");
+    s += &wrap(&drive_line(p), width, "", "  ");
     s += &rule;
     s += "\n";
     s += &wrap(
         "Wind in this order, innermost first, every winding in the SAME direction. Mark each start lead before the first turn.",
-        WIDTH,
+        width,
         "",
         "",
     );
@@ -303,46 +313,84 @@ pub fn text_card(p: &Plan, o: &CardOptions) -> String {
     for (k, w) in p.windings.iter().enumerate() {
         s += &thin;
         s += "\n";
-        s += &bold(&format!(
-            "[{}] {} \"{}\"  {}",
-            k + 1,
-            role_word(w),
-            w.name,
-            volts_amps(p, w)
-        ));
-        s += "\n";
-        s += &bold(&format!("    TURNS {}", w.turns));
-        if w.kept {
-            s += "   (counted by the test winding)\n";
-        } else {
-            s += &format!(
-                "   {} per layer x {} layers\n",
-                w.coil.turns_per_layer, w.coil.layers
-            );
-        }
-        s += &wrap(&format!("wire: {}", wire_text(w)), WIDTH, "    ", "      ");
-        if let Some(h) = half_coil_note(p, w) {
-            s += &wrap(&h, WIDTH, "    ", "    ");
-        }
-        if w.kept {
-            s += &wrap(
-                "Kept on the core as it is: do not unwind; check it with the meter below.",
-                WIDTH,
-                "    ",
-                "    ",
-            );
-        } else {
-            s += &checkpoint_grid(w);
-            if let Some(t) = tap_text(w) {
-                s += &wrap(&format!("TAPS: {t}"), WIDTH, "    ", "      ");
-            }
-            s += &wrap(&lead_note(k), WIDTH, "    ", "    ");
-        }
-        s += &wrap(&insulation_note(p, k + 1 == n), WIDTH, "    ", "    ");
+        s += &text_winding(p, w, k, k + 1 == n, width, &bold);
     }
     s += &thin;
     s += "\n";
-    s += &bold(&format!(
+    s += &text_cut_and_checks(p, o, &bold);
+    s += &thin;
+    s += "\n";
+    s += &bold(&verdict_line(p));
+    s += "\n";
+    for w in &p.warnings {
+        s += &wrap(&words::warning(w), width, "  ! ", "    ");
+    }
+    s += &bold("CAUTIONS");
+    s += "\n";
+    for c in p.cautions {
+        s += &wrap(c, width, "  * ", "    ");
+    }
+    s += &rule;
+    s += "\n";
+    if o.ascii() {
+        super::asciify(&s)
+    } else {
+        s
+    }
+}
+
+/// One winding's block of the text card.
+fn text_winding(
+    p: &Plan,
+    w: &WindingPlan,
+    k: usize,
+    last: bool,
+    width: usize,
+    bold: &dyn Fn(&str) -> String,
+) -> String {
+    let mut s = bold(&format!(
+        "[{}] {} \"{}\"  {}",
+        k + 1,
+        role_word(w),
+        w.name,
+        volts_amps(p, w)
+    ));
+    s += "\n";
+    s += &bold(&format!("    TURNS {}", w.turns));
+    if w.kept {
+        s += "   (counted by the test winding)\n";
+    } else {
+        s += &format!(
+            "   {} per layer x {} layers\n",
+            w.coil.turns_per_layer, w.coil.layers
+        );
+    }
+    s += &wrap(&format!("wire: {}", wire_text(w)), width, "    ", "      ");
+    if let Some(h) = half_coil_note(p, w) {
+        s += &wrap(&h, width, "    ", "    ");
+    }
+    if w.kept {
+        s += &wrap(
+            "Kept on the core as it is: do not unwind; check it with the meter below.",
+            width,
+            "    ",
+            "    ",
+        );
+    } else {
+        s += &checkpoint_grid(w);
+        if let Some(t) = tap_text(w) {
+            s += &wrap(&format!("TAPS: {t}"), width, "    ", "      ");
+        }
+        s += &wrap(&lead_note(k), width, "    ", "    ");
+    }
+    s += &wrap(&insulation_note(p, last), width, "    ", "    ");
+    s
+}
+
+/// The cut-and-buy list and the bench checks of the text card.
+fn text_cut_and_checks(p: &Plan, o: &CardOptions, bold: &dyn Fn(&str) -> String) -> String {
+    let width = o.look.width;
+    let mut s = bold(&format!(
         "CUT AND BUY (spare {} %)",
         num(o.spare * 100.0, 0)
     ));
@@ -358,41 +406,23 @@ pub fn text_card(p: &Plan, o: &CardOptions) -> String {
                 num(w.coil.mean_turn_mm, 0),
                 num(w.copper_mass_g, 0)
             ),
-            WIDTH,
+            width,
             "  ",
             "    ",
         );
     }
     for b in buy_list(p, o.spare) {
-        s += &wrap(&buy_text(&b), WIDTH, "  buy: ", "    ");
+        s += &wrap(&buy_text(&b), width, "  buy: ", "    ");
     }
     s += &bold("BENCH CHECKS");
     s += "\n";
     for l in bench_lines(p) {
-        s += &wrap(&l, WIDTH, "  ", "    ");
+        s += &wrap(&l, width, "  ", "    ");
     }
     for l in power_up_lines() {
-        s += &wrap(l, WIDTH, "  ", "    ");
+        s += &wrap(l, width, "  ", "    ");
     }
-    s += &thin;
-    s += "\n";
-    s += &bold(&verdict_line(p));
-    s += "\n";
-    for w in &p.warnings {
-        s += &wrap(w, WIDTH, "  ! ", "    ");
-    }
-    s += &bold("CAUTIONS");
-    s += "\n";
-    for c in p.cautions {
-        s += &wrap(c, WIDTH, "  * ", "    ");
-    }
-    s += &rule;
-    s += "\n";
-    if o.ascii {
-        super::asciify(&s)
-    } else {
-        s
-    }
+    s
 }
 
 fn buy_text(b: &BuyRow) -> String {
@@ -408,7 +438,7 @@ fn buy_text(b: &BuyRow) -> String {
 pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "# Winding card: {}\n", p.name);
-    let _ = writeln!(s, "{}  \n{}\n", core_line(p, o.units), drive_line(p));
+    let _ = writeln!(s, "{}  \n{}\n", core_line(p, o.look.units), drive_line(p));
     let _ = writeln!(s, "Wind in this order, innermost first, every winding in the **same direction**. Mark each start lead before the first turn.\n");
     let n = p.windings.len();
     for (k, w) in p.windings.iter().enumerate() {
@@ -487,7 +517,7 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     }
     let _ = writeln!(s, "\n**{}**\n", verdict_line(p));
     for w in &p.warnings {
-        let _ = writeln!(s, "> {w}\n");
+        let _ = writeln!(s, "> {}\n", words::warning(w));
     }
     let _ = writeln!(s, "## Cautions\n");
     for c in p.cautions {
@@ -516,10 +546,27 @@ const PATTERNS: &[(&str, &str)] = &[
     ),
 ];
 
-/// The cross-section of one window to scale, as an SVG element (no XML declaration).
+/// Where the cross-section sits in its drawing, mm.
+struct Frame {
+    /// The tongue's face (the bobbin tube's inner face).
+    x0: f64,
+    /// The window's top.
+    y0: f64,
+    /// The first turn's end of the traverse.
+    coil_top: f64,
+    /// The traverse drawn.
+    traverse: f64,
+    /// The window's width available to one coil.
+    avail_w: f64,
+    /// The window's height.
+    h: f64,
+}
+
+/// The cross-section of one window to scale, as an SVG element (no XML declaration). Every
+/// winding, gap and layer line is placed where the layout put it (`CoilLayout::start_mm`,
+/// `layer_boundaries_mm`), so the drawing and the plan's build agree.
 pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
     let c = &p.core;
-    let s = &p.settings;
     let avail_w = match c.shape {
         Shape::Ei => c.window_width_mm,
         Shape::Ui => c.window_width_mm / 2.0,
@@ -530,11 +577,16 @@ pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
     let margin = 4.0;
     let label_w = 30.0;
     let vb_w = tongue_strip + avail_w + label_w + 2.0 * margin;
-    let scale_h = 10.0;
-    let vb_h = h + 2.0 * margin + scale_h + 6.0;
+    let vb_h = h + 2.0 * margin + 10.0 + 6.0;
     let px_h = width_px * vb_h / vb_w;
-    let x0 = margin + tongue_strip; // tongue face
-    let y0 = margin;
+    let f = Frame {
+        x0: margin + tongue_strip,
+        y0: margin,
+        coil_top: margin + p.settings.bobbin_wall_mm + p.settings.margin_mm,
+        traverse: p.window.traverse_mm.max(0.0),
+        avail_w,
+        h,
+    };
     let mut o = String::new();
     let _ = write!(
         o,
@@ -546,28 +598,35 @@ pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
     }
     o += r##"<pattern id="steel" width="1.5" height="1.5" patternUnits="userSpaceOnUse"><rect width="1.5" height="1.5" fill="#9a9a9a"/><line x1="0" y1="1.5" x2="1.5" y2="0" stroke="#666" stroke-width="0.2"/></pattern>"##;
     o += "</defs>";
-    // Steel: tongue strip on the left, yokes above and below, outer leg on the right.
+    xsec_steel_and_bobbin(&mut o, p, &f, margin, tongue_strip);
+    let x = xsec_windings(&mut o, p, &f);
+    let end = xsec_outer(&mut o, p, &f, x);
+    xsec_legend(&mut o, p, &f, end + 4.0);
+    xsec_scale_bar(&mut o, &f);
+    o += "</svg>";
+    o
+}
+
+/// The tongue strip, the window and the bobbin's tube and flanges.
+fn xsec_steel_and_bobbin(o: &mut String, p: &Plan, f: &Frame, margin: f64, tongue_strip: f64) {
+    let (x0, y0, h) = (f.x0, f.y0, p.core.window_height_mm);
+    let avail_w = f.avail_w;
     let _ = write!(
         o,
         r#"<rect x="{:.2}" y="{:.2}" width="{tongue_strip:.2}" height="{h:.2}" fill="url(#steel)"/>"#,
         margin, y0
     );
+    let tx = margin + tongue_strip / 2.0 + 0.8;
+    let ty = y0 + h / 2.0;
     let _ = write!(
         o,
-        r#"<text x="{:.2}" y="{:.2}" transform="rotate(-90 {:.2} {:.2})" text-anchor="middle" font-size="2.4">tongue</text>"#,
-        margin + tongue_strip / 2.0 + 0.8,
-        y0 + h / 2.0,
-        margin + tongue_strip / 2.0 + 0.8,
-        y0 + h / 2.0
+        r#"<text x="{tx:.2}" y="{ty:.2}" transform="rotate(-90 {tx:.2} {ty:.2})" text-anchor="middle" font-size="2.4">tongue</text>"#
     );
     let _ = write!(
         o,
         r##"<rect class="window" x="{x0:.2}" y="{y0:.2}" width="{avail_w:.2}" height="{h:.2}" fill="white" stroke="#000" stroke-width="0.4"/>"##
     );
-    // Bobbin: tube along the tongue and flanges at both ends.
-    let wall = s.bobbin_wall_mm;
-    let coil_top = y0 + wall + s.margin_mm;
-    let traverse = p.window.traverse_mm.max(0.0);
+    let wall = p.settings.bobbin_wall_mm;
     let build_total = p.window.build_mm.min(avail_w);
     let _ = write!(
         o,
@@ -579,41 +638,41 @@ pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
             r##"<rect class="bobbin" x="{x0:.2}" y="{fy:.2}" width="{build_total:.2}" height="{wall:.2}" fill="#c8b38a" stroke="#5a4a2a" stroke-width="0.2"/>"##
         );
     }
-    // Windings.
-    let mut x = x0 + wall;
-    let nw = p.windings.len();
+}
+
+/// Each winding where the layout put it, the insulation between, its layer lines and its number;
+/// returns where the last winding ends.
+fn xsec_windings(o: &mut String, p: &Plan, f: &Frame) -> f64 {
+    let tube = f.x0 + p.settings.bobbin_wall_mm;
+    let (coil_top, traverse) = (f.coil_top, f.traverse);
+    let mut x = tube;
     for (k, w) in p.windings.iter().enumerate() {
+        let start = tube + w.coil.start_mm;
         if k > 0 {
-            let gap = s.between_windings_mm;
+            let gap = start - x;
             let _ = write!(
                 o,
                 r##"<rect class="insulation" x="{x:.2}" y="{coil_top:.2}" width="{gap:.2}" height="{traverse:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
             );
-            x += gap;
         }
         let b = w.coil.build_mm.max(0.0);
         let (pat, _) = PATTERNS[k % PATTERNS.len()];
         let _ = write!(
             o,
-            r##"<rect class="winding" x="{x:.2}" y="{coil_top:.2}" width="{b:.2}" height="{traverse:.2}" fill="url(#{pat})" stroke="#000" stroke-width="0.3"/>"##
+            r##"<rect class="winding" x="{start:.2}" y="{coil_top:.2}" width="{b:.2}" height="{traverse:.2}" fill="url(#{pat})" stroke="#000" stroke-width="0.3"/>"##
         );
-        // Layer lines.
-        let layers = w.coil.layers.max(1);
-        if layers > 1 && layers < 200 {
-            let lb = w.wire.conductor.build_mm();
-            for l in 1..layers {
-                let lx = x + l as f64 * (lb + s.interlayer_mm) - s.interlayer_mm / 2.0;
-                if lx < x + b {
-                    let _ = write!(
-                        o,
-                        r##"<line x1="{lx:.2}" y1="{coil_top:.2}" x2="{lx:.2}" y2="{:.2}" stroke="#000" stroke-width="0.12"/>"##,
-                        coil_top + traverse
-                    );
-                }
+        if w.coil.layers < 200 {
+            for l in w.coil.layer_boundaries_mm() {
+                let lx = tube + l;
+                let _ = write!(
+                    o,
+                    r##"<line x1="{lx:.2}" y1="{coil_top:.2}" x2="{lx:.2}" y2="{:.2}" stroke="#000" stroke-width="0.12"/>"##,
+                    coil_top + traverse
+                );
             }
         }
         // Label: number in a white box at the middle.
-        let cx = x + b / 2.0;
+        let cx = start + b / 2.0;
         let cy = coil_top + 4.0 + (k as f64 * 5.0) % (traverse - 6.0).max(1.0);
         let _ = write!(
             o,
@@ -623,26 +682,30 @@ pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
             cy,
             k + 1
         );
-        x += b;
-        let _ = nw;
+        x = start + b;
     }
-    // Outer wrap and clearance.
-    let outer = s.outer_mm;
+    x
+}
+
+/// The outer wrap, the clearance (or the overflow past the window) and the outer leg; returns the
+/// window's outer edge.
+fn xsec_outer(o: &mut String, p: &Plan, f: &Frame, x: f64) -> f64 {
+    let (coil_top, traverse, y0) = (f.coil_top, f.traverse, f.y0);
+    let h = p.core.window_height_mm;
+    let outer = p.settings.outer_mm;
     let _ = write!(
         o,
         r##"<rect class="insulation" x="{x:.2}" y="{coil_top:.2}" width="{outer:.2}" height="{traverse:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
     );
-    x += outer;
-    let end = x0 + avail_w;
+    let x = x + outer;
+    let end = f.x0 + f.avail_w;
     if x < end {
+        let tx = (x + end) / 2.0 + 0.8;
+        let ty = y0 + h / 2.0;
         let _ = write!(
             o,
-            r##"<rect class="clearance" x="{x:.2}" y="{y0:.2}" width="{:.2}" height="{h:.2}" fill="none" stroke="#444" stroke-width="0.2" stroke-dasharray="1 1"/><text x="{:.2}" y="{:.2}" font-size="2.2" transform="rotate(-90 {:.2} {:.2})" text-anchor="middle">clearance {} mm</text>"##,
+            r##"<rect class="clearance" x="{x:.2}" y="{y0:.2}" width="{:.2}" height="{h:.2}" fill="none" stroke="#444" stroke-width="0.2" stroke-dasharray="1 1"/><text x="{tx:.2}" y="{ty:.2}" font-size="2.2" transform="rotate(-90 {tx:.2} {ty:.2})" text-anchor="middle">clearance {} mm</text>"##,
             end - x,
-            (x + end) / 2.0 + 0.8,
-            y0 + h / 2.0,
-            (x + end) / 2.0 + 0.8,
-            y0 + h / 2.0,
             num(end - x, 1)
         );
     } else {
@@ -652,68 +715,63 @@ pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
             x - end
         );
     }
-    // Outer leg.
     let _ = write!(
         o,
         r#"<rect x="{end:.2}" y="{y0:.2}" width="2" height="{h:.2}" fill="url(#steel)"/>"#
     );
-    // Legend at the right.
-    let lx = end + 4.0;
+    end
+}
+
+/// The legend at the right: each winding's pattern, insulation and bobbin.
+fn xsec_legend(o: &mut String, p: &Plan, f: &Frame, lx: f64) {
+    let y0 = f.y0;
+    let key = |o: &mut String, ly: f64, fill: &str, stroke: &str, width: f64, text: &str| {
+        let _ = write!(
+            o,
+            r##"<rect x="{lx:.2}" y="{ly:.2}" width="4" height="4" fill="{fill}" stroke="{stroke}" stroke-width="{width}"/><text x="{:.2}" y="{:.2}">{text}</text>"##,
+            lx + 5.0,
+            ly + 3.2
+        );
+    };
     for (k, w) in p.windings.iter().enumerate() {
         let (pat, _) = PATTERNS[k % PATTERNS.len()];
         let ly = y0 + 2.0 + k as f64 * 6.0;
-        let _ = write!(
-            o,
-            r##"<rect x="{lx:.2}" y="{ly:.2}" width="4" height="4" fill="url(#{pat})" stroke="#000" stroke-width="0.2"/><text x="{:.2}" y="{:.2}">{} {}</text>"##,
-            lx + 5.0,
-            ly + 3.2,
-            k + 1,
-            esc(&w.name)
-        );
+        let text = format!("{} {}", k + 1, esc(&w.name));
+        key(o, ly, &format!("url(#{pat})"), "#000", 0.2, &text);
     }
-    let ly = y0 + 2.0 + nw as f64 * 6.0;
-    let _ = write!(
-        o,
-        r##"<rect x="{lx:.2}" y="{ly:.2}" width="4" height="4" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.2"/><text x="{:.2}" y="{:.2}">insulation</text>"##,
-        lx + 5.0,
-        ly + 3.2
-    );
+    let ly = y0 + 2.0 + p.windings.len() as f64 * 6.0;
+    key(o, ly, "#fff7b0", "#8a7a00", 0.2, "insulation");
     let ly = ly + 6.0;
-    let _ = write!(
-        o,
-        r##"<rect x="{lx:.2}" y="{ly:.2}" width="4" height="4" fill="#c8b38a" stroke="#5a4a2a" stroke-width="0.2"/><text x="{:.2}" y="{:.2}">bobbin</text>"##,
-        lx + 5.0,
-        ly + 3.2
-    );
-    if c.shape == Shape::Ui {
+    key(o, ly, "#c8b38a", "#5a4a2a", 0.2, "bobbin");
+    if p.core.shape == Shape::Ui {
         let _ = write!(
             o,
             r#"<text x="{lx:.2}" y="{:.2}" font-size="2.2">U-I: one leg's half</text>"#,
             ly + 9.0
         );
     }
-    // Scale bar: a round number of mm near a third of the window width.
+}
+
+/// A scale bar: a round number of mm near a third of the window width.
+fn xsec_scale_bar(o: &mut String, f: &Frame) {
+    let x0 = f.x0;
     let bar = [1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0]
         .into_iter()
-        .rfind(|b| *b <= avail_w.max(1.0))
+        .rfind(|b| *b <= f.avail_w.max(1.0))
         .unwrap_or(1.0);
-    let by = y0 + h + 6.0;
+    let by = f.y0 + f.h + 6.0;
+    let x1 = x0 + bar;
     let _ = write!(
         o,
-        r##"<g class="scale-bar"><line x1="{x0:.2}" y1="{by:.2}" x2="{:.2}" y2="{by:.2}" stroke="#000" stroke-width="0.6"/><line x1="{x0:.2}" y1="{:.2}" x2="{x0:.2}" y2="{:.2}" stroke="#000" stroke-width="0.4"/><line x1="{:.2}" y1="{:.2}" x2="{:.2}" y2="{:.2}" stroke="#000" stroke-width="0.4"/><text x="{:.2}" y="{:.2}">{} mm</text></g>"##,
-        x0 + bar,
+        r##"<g class="scale-bar"><line x1="{x0:.2}" y1="{by:.2}" x2="{x1:.2}" y2="{by:.2}" stroke="#000" stroke-width="0.6"/><line x1="{x0:.2}" y1="{:.2}" x2="{x0:.2}" y2="{:.2}" stroke="#000" stroke-width="0.4"/><line x1="{x1:.2}" y1="{:.2}" x2="{x1:.2}" y2="{:.2}" stroke="#000" stroke-width="0.4"/><text x="{:.2}" y="{:.2}">{} mm</text></g>"##,
         by - 1.2,
         by + 1.2,
-        x0 + bar,
         by - 1.2,
-        x0 + bar,
         by + 1.2,
-        x0 + bar + 1.5,
+        x1 + 1.5,
         by + 1.0,
         num(bar, 0)
     );
-    o += "</svg>";
-    o
 }
 
 /// The SVG file: the cross-section alone, with an XML declaration.
@@ -772,103 +830,69 @@ ul { margin: 0; padding-left: 3.5mm; }
 .denser table.cpt td.cp { font-size: 7.6pt; }
 "#;
 
-/// The HTML card: one self-contained file, one A5 page when printed at 100 %.
-pub fn html_card(p: &Plan, o: &CardOptions) -> String {
+/// One winding's box on the HTML card.
+fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool) -> String {
     let mut s = String::new();
-    s += "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"/>";
-    let _ = write!(s, "<title>Winding card: {}</title>", esc(&p.name));
-    // More windings or layers than a roomy card holds: a denser type scale, still printed at 100 %.
-    let load: usize = p.windings.len() * 3
-        + p.windings
-            .iter()
-            .map(|w| w.coil.checkpoints.len().div_ceil(12) + usize::from(!w.taps.is_empty()))
-            .sum::<usize>()
-        + p.warnings.len()
-        + usize::from(p.core.shape == Shape::Ui);
-    let density = if load > 12 {
-        " denser"
-    } else if load > 8 {
-        " dense"
+    s += "<div class=\"w\">";
+    let _ = write!(
+        s,
+        "<h2>{} &#160;{} &#8220;{}&#8221; &#8212; {}</h2>",
+        k + 1,
+        esc(role_word(w)),
+        esc(&w.name),
+        esc(&volts_amps(p, w))
+    );
+    let legs = if p.core.shape == Shape::Ui {
+        format!(
+            " &#160;(leg 1: {}, leg 2: {})",
+            w.coil.coil_turns,
+            w.turns - w.coil.coil_turns
+        )
     } else {
-        ""
+        String::new()
     };
-    let _ = write!(
-        s,
-        "<style>{CSS}</style></head><body><div class=\"page{density}\">"
-    );
-    let _ = write!(s, "<h1>Winding card: {}</h1>", esc(&p.name));
-    let _ = write!(
-        s,
-        "<p class=\"sub\">{}<br/>{}</p>",
-        esc(&core_line(p, o.units)),
-        esc(&drive_line(p))
-    );
-    s += "<p class=\"order\">Wind innermost first, every winding in the same direction. Mark each start lead before the first turn.";
-    if p.core.shape == Shape::Ui {
-        s += " U-I core: every winding is two half-coils in series, one per leg, fluxes adding; layers and checkpoints are per leg.";
-    }
-    s += "</p>";
-    s += "<div class=\"top\"><div class=\"windings\">";
-    let n = p.windings.len();
-    for (k, w) in p.windings.iter().enumerate() {
-        s += "<div class=\"w\">";
+    if w.kept {
+        let _ = write!(s, "<div><span class=\"turns\">{} turns</span>{legs} &#160; kept on the core as it is: do not unwind</div>", w.turns);
         let _ = write!(
             s,
-            "<h2>{} &#160;{} &#8220;{}&#8221; &#8212; {}</h2>",
-            k + 1,
-            esc(role_word(w)),
-            esc(&w.name),
-            esc(&volts_amps(p, w))
+            "<div class=\"small\">{} {}</div>",
+            esc(&wire_text(w)),
+            esc(&insulation_note(p, last))
         );
-        let legs = if p.core.shape == Shape::Ui {
-            format!(
-                " &#160;(leg 1: {}, leg 2: {})",
-                w.coil.coil_turns,
-                w.turns - w.coil.coil_turns
-            )
-        } else {
-            String::new()
-        };
-        if w.kept {
-            let _ = write!(s, "<div><span class=\"turns\">{} turns</span>{legs} &#160; kept on the core as it is: do not unwind</div>", w.turns);
-            let _ = write!(
-                s,
-                "<div class=\"small\">{} {}</div>",
-                esc(&wire_text(w)),
-                esc(&insulation_note(p, k + 1 == n))
-            );
-        } else {
-            let _ = write!(
-                s,
-                "<div><span class=\"turns\">{} turns</span>{legs} &#160; <span class=\"tpl\">{} per layer &#215; {} layers</span></div>",
-                w.turns, w.coil.turns_per_layer, w.coil.layers
-            );
-            let _ = write!(s, "<div>{}</div>", esc(&wire_text(w)));
-            s += "<div class=\"row\"><table class=\"cpt\"><tr><th>layer</th>";
-            for k in 1..=w.coil.checkpoints.len() {
-                let _ = write!(s, "<td>{k}</td>");
-            }
-            s += "</tr><tr><th>ends at turn</th>";
-            for t in &w.coil.checkpoints {
-                let _ = write!(s, "<td class=\"cp\">{t}</td>");
-            }
-            s += "</tr></table>";
-            if let Some(t) = tap_text(w) {
-                let _ = write!(s, "<div class=\"tpl\">Taps: {}</div>", esc(&t));
-            }
-            s += "</div>";
-            let _ = write!(
-                s,
-                "<div class=\"small\">{} {}</div>",
-                esc(&lead_note(k)),
-                esc(&insulation_note(p, k + 1 == n))
-            );
+    } else {
+        let _ = write!(
+            s,
+            "<div><span class=\"turns\">{} turns</span>{legs} &#160; <span class=\"tpl\">{} per layer &#215; {} layers</span></div>",
+            w.turns, w.coil.turns_per_layer, w.coil.layers
+        );
+        let _ = write!(s, "<div>{}</div>", esc(&wire_text(w)));
+        s += "<div class=\"row\"><table class=\"cpt\"><tr><th>layer</th>";
+        for k in 1..=w.coil.checkpoints.len() {
+            let _ = write!(s, "<td>{k}</td>");
+        }
+        s += "</tr><tr><th>ends at turn</th>";
+        for t in &w.coil.checkpoints {
+            let _ = write!(s, "<td class=\"cp\">{t}</td>");
+        }
+        s += "</tr></table>";
+        if let Some(t) = tap_text(w) {
+            let _ = write!(s, "<div class=\"tpl\">Taps: {}</div>", esc(&t));
         }
         s += "</div>";
+        let _ = write!(
+            s,
+            "<div class=\"small\">{} {}</div>",
+            esc(&lead_note(k)),
+            esc(&insulation_note(p, last))
+        );
     }
-    s += "</div><div class=\"xsec-box\">";
-    s += &cross_section_svg(p, 160.0);
-    s += "<div>One window, to scale</div></div></div>";
+    s += "</div>";
+    s
+}
+
+/// The cut-and-buy list and the bench checks of the HTML card.
+fn html_cut_and_checks(p: &Plan, o: &CardOptions) -> String {
+    let mut s = String::new();
     s += "<div class=\"two\"><div>";
     let _ = write!(s, "<h3>Cut and buy (spare {} %)</h3><table><tr><th>winding</th><th>cut/strand m</th><th>strands</th><th>Cu g</th></tr>", num(o.spare * 100.0, 0));
     for w in p.windings.iter().filter(|w| !w.kept) {
@@ -911,6 +935,54 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
         let _ = write!(s, "<li>{}</li>", esc(l));
     }
     s += "</ul></div></div>";
+    s
+}
+
+/// The HTML card: one self-contained file, one A5 page when printed at 100 %.
+pub fn html_card(p: &Plan, o: &CardOptions) -> String {
+    let mut s = String::new();
+    s += "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"/>";
+    let _ = write!(s, "<title>Winding card: {}</title>", esc(&p.name));
+    // More windings or layers than a roomy card holds: a denser type scale, still printed at 100 %.
+    let load: usize = p.windings.len() * 3
+        + p.windings
+            .iter()
+            .map(|w| w.coil.checkpoints.len().div_ceil(12) + usize::from(!w.taps.is_empty()))
+            .sum::<usize>()
+        + p.warnings.len()
+        + usize::from(p.core.shape == Shape::Ui);
+    let density = if load > 12 {
+        " denser"
+    } else if load > 8 {
+        " dense"
+    } else {
+        ""
+    };
+    let _ = write!(
+        s,
+        "<style>{CSS}</style></head><body><div class=\"page{density}\">"
+    );
+    let _ = write!(s, "<h1>Winding card: {}</h1>", esc(&p.name));
+    let _ = write!(
+        s,
+        "<p class=\"sub\">{}<br/>{}</p>",
+        esc(&core_line(p, o.look.units)),
+        esc(&drive_line(p))
+    );
+    s += "<p class=\"order\">Wind innermost first, every winding in the same direction. Mark each start lead before the first turn.";
+    if p.core.shape == Shape::Ui {
+        s += " U-I core: every winding is two half-coils in series, one per leg, fluxes adding; layers and checkpoints are per leg.";
+    }
+    s += "</p>";
+    s += "<div class=\"top\"><div class=\"windings\">";
+    let n = p.windings.len();
+    for (k, w) in p.windings.iter().enumerate() {
+        s += &html_winding(p, w, k, k + 1 == n);
+    }
+    s += "</div><div class=\"xsec-box\">";
+    s += &cross_section_svg(p, 160.0);
+    s += "<div>One window, to scale</div></div></div>";
+    s += &html_cut_and_checks(p, o);
     let _ = write!(
         s,
         "<div class=\"verdict{}\">{}</div>",
@@ -920,7 +992,7 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
     if !p.warnings.is_empty() {
         s += "<ul class=\"warn\">";
         for w in &p.warnings {
-            let _ = write!(s, "<li>{}</li>", esc(w));
+            let _ = write!(s, "<li>{}</li>", esc(&words::warning(w)));
         }
         s += "</ul>";
     }

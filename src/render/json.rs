@@ -3,7 +3,8 @@
 //! The keys are a contract (DESIGN.md, "JSON of plan"); `tests/` holds a typed mirror with
 //! `deny_unknown_fields` that fails when a key goes missing or appears unannounced.
 
-use crate::plan::Plan;
+use super::words;
+use crate::plan::{Plan, WindingPlan};
 use crate::wire::Conductor;
 use serde::Serialize;
 use std::io::Write;
@@ -35,9 +36,9 @@ pub struct PlanJson<'a> {
     /// What to buy.
     pub buy: Vec<BuyRow>,
     /// Verdict.
-    pub verdict: VerdictJson<'a>,
+    pub verdict: VerdictJson,
     /// Warnings.
-    pub warnings: &'a [String],
+    pub warnings: Vec<String>,
     /// Cautions.
     pub cautions: &'a [&'a str],
 }
@@ -93,7 +94,7 @@ pub struct DriveJson<'a> {
     /// Design flux, T.
     pub design_flux_t: f64,
     /// Where the design flux came from.
-    pub flux_source: &'a str,
+    pub flux_source: String,
     /// Flux ceiling, T.
     pub flux_limit_t: f64,
     /// Volts per turn.
@@ -109,7 +110,7 @@ pub struct DriveJson<'a> {
     /// Flux over the donor's flux (null without a test winding).
     pub flux_vs_donor: Option<f64>,
     /// The kept-output comparison of drive and donor (null otherwise).
-    pub kept_output_note: Option<&'a str>,
+    pub kept_output_note: Option<String>,
 }
 
 /// Conductor keys.
@@ -303,22 +304,24 @@ pub struct BuyRow {
 
 /// A check.
 #[derive(Debug, Serialize)]
-pub struct CheckJson<'a> {
+pub struct CheckJson {
     /// Name.
-    pub name: &'a str,
+    pub name: String,
+    /// What it is about: flux, window, heating, current-density, primary-current, output.
+    pub kind: &'static str,
     /// Passes.
     pub ok: bool,
     /// Detail.
-    pub detail: &'a str,
+    pub detail: String,
 }
 
 /// Verdict.
 #[derive(Debug, Serialize)]
-pub struct VerdictJson<'a> {
+pub struct VerdictJson {
     /// All pass.
     pub ok: bool,
     /// Checks.
-    pub checks: Vec<CheckJson<'a>>,
+    pub checks: Vec<CheckJson>,
 }
 
 /// The wire to buy, grouped by size: every strand's cut length, with a spare allowance.
@@ -350,97 +353,145 @@ pub fn buy_list(plan: &Plan, spare: f64) -> Vec<BuyRow> {
     rows
 }
 
-/// Builds the JSON document of a plan.
-pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
+fn core_json(plan: &Plan) -> CoreJson<'_> {
     let g = &plan.geometry;
-    PlanJson {
-        name: &plan.name,
-        core: CoreJson {
-            shape: plan.core.shape.name(),
-            tongue_mm: plan.core.tongue_mm,
-            stack_mm: plan.core.stack_mm,
-            window_width_mm: plan.core.window_width_mm,
-            window_height_mm: plan.core.window_height_mm,
-            stacking_factor: plan.core.stacking_factor,
-            steel: &plan.steel.name,
-            steel_kind: &plan.steel.kind,
-            steel_loss_w_per_kg: plan.steel.loss_w_per_kg_1t5,
-            area_gross_mm2: g.area_gross_mm2,
-            area_net_mm2: g.area_net_mm2,
-            window_area_mm2: g.window_area_mm2,
-            area_product_cm4: g.area_product_cm4,
-            mass_kg: g.mass_kg,
-            mass_measured: g.mass_measured,
-            path_length_mm: g.path_length_mm,
+    CoreJson {
+        shape: plan.core.shape.name(),
+        tongue_mm: plan.core.tongue_mm,
+        stack_mm: plan.core.stack_mm,
+        window_width_mm: plan.core.window_width_mm,
+        window_height_mm: plan.core.window_height_mm,
+        stacking_factor: plan.core.stacking_factor,
+        steel: &plan.steel.name,
+        steel_kind: &plan.steel.kind,
+        steel_loss_w_per_kg: plan.steel.loss_w_per_kg_1t5,
+        area_gross_mm2: g.area_gross_mm2,
+        area_net_mm2: g.area_net_mm2,
+        window_area_mm2: g.window_area_mm2,
+        area_product_cm4: g.area_product_cm4,
+        mass_kg: g.mass_kg,
+        mass_measured: g.mass_measured,
+        path_length_mm: g.path_length_mm,
+    }
+}
+
+fn drive_json(plan: &Plan) -> DriveJson<'_> {
+    DriveJson {
+        frequency_hz: plan.drive.frequency_hz,
+        waveform: plan.drive.waveform.name(),
+        duty: match plan.drive.waveform {
+            crate::magnetics::Waveform::QuasiSquare { duty } => duty,
+            _ => 1.0,
         },
-        drive: DriveJson {
-            frequency_hz: plan.drive.frequency_hz,
-            waveform: plan.drive.waveform.name(),
-            duty: match plan.drive.waveform {
-                crate::magnetics::Waveform::QuasiSquare { duty } => duty,
-                _ => 1.0,
-            },
-            flux_density_t: plan.drive.flux_density_t,
-            design_flux_t: plan.drive.design_flux_t,
-            flux_source: &plan.drive.flux_source,
-            flux_limit_t: plan.drive.flux_limit_t,
-            volts_per_turn: plan.drive.volts_per_turn,
-            turns_per_volt: 1.0 / plan.drive.volts_per_turn,
-            primary_rms_volts: plan.drive.primary_rms_volts,
-            primary_amps: plan.drive.primary_amps,
-            no_load_amps: plan.drive.no_load_amps,
-            flux_vs_donor: plan.drive.flux_vs_donor,
-            kept_output_note: plan.drive.kept_output_note.as_deref(),
+        flux_density_t: plan.drive.flux_density_t,
+        design_flux_t: plan.drive.design_flux_t,
+        flux_source: words::flux_source(&plan.drive.flux_source),
+        flux_limit_t: plan.drive.flux_limit_t,
+        volts_per_turn: plan.drive.volts_per_turn,
+        turns_per_volt: 1.0 / plan.drive.volts_per_turn,
+        primary_rms_volts: plan.drive.primary_rms_volts,
+        primary_amps: plan.drive.primary_amps,
+        no_load_amps: plan.drive.no_load_amps,
+        flux_vs_donor: plan.drive.flux_vs_donor,
+        kept_output_note: plan
+            .drive
+            .kept_output_note
+            .as_ref()
+            .map(words::kept_output_note),
+    }
+}
+
+fn winding_json(w: &WindingPlan) -> WindingJson<'_> {
+    let c = &w.wire.conductor;
+    WindingJson {
+        name: &w.name,
+        role: w.role.name(),
+        kept: w.kept,
+        volts: w.volts,
+        amps: w.amps,
+        turns: w.turns,
+        coil_turns: w.coil.coil_turns,
+        strands: w.wire.strands,
+        conductor: ConductorJson {
+            system: c.system_name(),
+            size: c.size_label(),
+            grade: w.grade_label.to_string(),
+            bare_mm: c.bare_mm(),
+            overall_mm: c.build_mm(),
+            overall_width_mm: c.traverse_mm(),
+            area_mm2: c.area_mm2(),
         },
-        windings: plan
-            .windings
+        current_density_a_mm2: w.current_density_a_mm2,
+        turns_per_layer: w.coil.turns_per_layer,
+        layers: w.coil.layers,
+        build_mm: w.coil.build_mm,
+        checkpoints: &w.coil.checkpoints,
+        mean_turn_mm: w.coil.mean_turn_mm,
+        length_m: w.length_m,
+        cut_length_m: w.cut_length_m,
+        resistance_ohm: w.resistance_ohm,
+        resistance_20c_ohm: w.resistance_20c_ohm,
+        copper_loss_w: w.copper_loss_w,
+        copper_mass_g: w.copper_mass_g,
+        volts_no_load: w.volts_no_load,
+        volts_full_load: w.volts_full_load,
+        max_volts_full_load: w.max_volts_full_load.filter(|v| v.is_finite()),
+        taps: w
+            .taps
             .iter()
-            .map(|w| {
-                let c = &w.wire.conductor;
-                WindingJson {
-                    name: &w.name,
-                    role: w.role.name(),
-                    kept: w.kept,
-                    volts: w.volts,
-                    amps: w.amps,
-                    turns: w.turns,
-                    coil_turns: w.coil.coil_turns,
-                    strands: w.wire.strands,
-                    conductor: ConductorJson {
-                        system: c.system_name(),
-                        size: c.size_label(),
-                        grade: w.grade_label.to_string(),
-                        bare_mm: c.bare_mm(),
-                        overall_mm: c.build_mm(),
-                        overall_width_mm: c.traverse_mm(),
-                        area_mm2: c.area_mm2(),
-                    },
-                    current_density_a_mm2: w.current_density_a_mm2,
-                    turns_per_layer: w.coil.turns_per_layer,
-                    layers: w.coil.layers,
-                    build_mm: w.coil.build_mm,
-                    checkpoints: &w.coil.checkpoints,
-                    mean_turn_mm: w.coil.mean_turn_mm,
-                    length_m: w.length_m,
-                    cut_length_m: w.cut_length_m,
-                    resistance_ohm: w.resistance_ohm,
-                    resistance_20c_ohm: w.resistance_20c_ohm,
-                    copper_loss_w: w.copper_loss_w,
-                    copper_mass_g: w.copper_mass_g,
-                    volts_no_load: w.volts_no_load,
-                    volts_full_load: w.volts_full_load,
-                    max_volts_full_load: w.max_volts_full_load.filter(|v| v.is_finite()),
-                    taps: w
-                        .taps
-                        .iter()
-                        .map(|t| TapJson {
-                            volts: t.volts,
-                            turn: t.turn,
-                        })
-                        .collect(),
-                }
+            .map(|t| TapJson {
+                volts: t.volts,
+                turn: t.turn,
             })
             .collect(),
+    }
+}
+
+fn settings_json(plan: &Plan) -> SettingsJson {
+    SettingsJson {
+        current_density_a_mm2: plan.current_density_limit_a_mm2,
+        system: plan.system.name(),
+        grade: if plan.grade == crate::wire::Grade::One {
+            1
+        } else {
+            2
+        },
+        max_strand_mm: plan.max_strand_mm,
+        pitch: plan.settings.pitch,
+        bobbin_wall_mm: plan.settings.bobbin_wall_mm,
+        margin_mm: plan.settings.margin_mm,
+        interlayer_mm: plan.settings.interlayer_mm,
+        between_windings_mm: plan.settings.between_windings_mm,
+        outer_mm: plan.settings.outer_mm,
+        clearance_mm: plan.settings.clearance_mm,
+        lead_m: plan.lead_m,
+    }
+}
+
+fn verdict_json(plan: &Plan) -> VerdictJson {
+    VerdictJson {
+        ok: plan.verdict.ok,
+        checks: plan
+            .verdict
+            .checks
+            .iter()
+            .map(|c| CheckJson {
+                name: c.name(),
+                kind: c.kind().key(),
+                ok: c.ok,
+                detail: words::check_detail(c),
+            })
+            .collect(),
+    }
+}
+
+/// Builds the JSON document of a plan.
+pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
+    PlanJson {
+        name: &plan.name,
+        core: core_json(plan),
+        drive: drive_json(plan),
+        windings: plan.windings.iter().map(winding_json).collect(),
         window: WindowJson {
             copper_fill: plan.window.copper_fill,
             build_mm: plan.window.build_mm,
@@ -470,39 +521,10 @@ pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
             tangent_flux_t: p.tangent_flux_t,
             recommended_flux_t: p.recommended_flux_t,
         }),
-        settings: SettingsJson {
-            current_density_a_mm2: plan.current_density_limit_a_mm2,
-            system: plan.system.name(),
-            grade: if plan.grade == crate::wire::Grade::One {
-                1
-            } else {
-                2
-            },
-            max_strand_mm: plan.max_strand_mm,
-            pitch: plan.settings.pitch,
-            bobbin_wall_mm: plan.settings.bobbin_wall_mm,
-            margin_mm: plan.settings.margin_mm,
-            interlayer_mm: plan.settings.interlayer_mm,
-            between_windings_mm: plan.settings.between_windings_mm,
-            outer_mm: plan.settings.outer_mm,
-            clearance_mm: plan.settings.clearance_mm,
-            lead_m: plan.lead_m,
-        },
+        settings: settings_json(plan),
         buy: buy_list(plan, spare),
-        verdict: VerdictJson {
-            ok: plan.verdict.ok,
-            checks: plan
-                .verdict
-                .checks
-                .iter()
-                .map(|c| CheckJson {
-                    name: &c.name,
-                    ok: c.ok,
-                    detail: &c.detail,
-                })
-                .collect(),
-        },
-        warnings: &plan.warnings,
+        verdict: verdict_json(plan),
+        warnings: plan.warnings.iter().map(words::warning).collect(),
         cautions: plan.cautions,
     }
 }

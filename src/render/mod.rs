@@ -1,13 +1,39 @@
-//! Renderers: each output format is one function over a computed result, writing to `&mut dyn Write`.
+//! Renderers: every word a person reads. One module per report (plan, card, core, wire, probe,
+//! rate, shelf), each writing any of its formats from (&Report, &Look, &mut dyn Write).
 //!
 //! Compute once, render many. Numbers shown to people are rounded per quantity; JSON carries full
-//! precision. Nothing here depends on the locale.
+//! precision. Nothing here depends on the locale. Checks, warnings and notes become sentences in
+//! `words`, once for every format.
 
 pub mod card;
+pub mod core;
 pub mod csv;
 pub mod json;
+pub mod plan;
+pub mod probe;
+pub mod rate;
+pub mod shelf;
 pub mod svg;
-pub mod text;
+pub mod wire;
+pub mod words;
+
+/// An output format. Each command offers the ones that suit its report; a renderer given a format
+/// it has no form for writes its text.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Format {
+    /// Tables and lines for a terminal.
+    Text,
+    /// JSON for scripts (SI and mm always).
+    Json,
+    /// CSV rows.
+    Csv,
+    /// Markdown (the card).
+    Markdown,
+    /// A self-contained HTML page (the card).
+    Html,
+    /// SVG (the card's cross-section).
+    Svg,
+}
 
 use tabled::builder::Builder;
 use tabled::settings::object::Columns;
@@ -33,8 +59,8 @@ pub enum Units {
     Imperial,
 }
 
-/// How text output looks: characters, units and colour.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+/// How text output looks: characters, units, colour and width.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct Look {
     /// Box drawing or plain ASCII.
     pub charset: Charset,
@@ -42,6 +68,19 @@ pub struct Look {
     pub units: Units,
     /// ANSI colour and bold.
     pub color: bool,
+    /// Columns the wrapped text (the card) keeps within.
+    pub width: usize,
+}
+
+impl Default for Look {
+    fn default() -> Self {
+        Look {
+            charset: Charset::Unicode,
+            units: Units::Metric,
+            color: false,
+            width: 80,
+        }
+    }
 }
 
 impl Look {
@@ -75,6 +114,17 @@ impl Look {
         match self.units {
             Units::Metric => format!("{} m", num(v, d)),
             Units::Imperial => format!("{} ft ({} m)", num(v / 0.3048, d), num(v, d)),
+        }
+    }
+    /// A heading: bold when colour is on.
+    pub fn heading(&self, s: &str) -> String {
+        self.bold(s)
+    }
+    /// A mass in kg (imperial: pounds first).
+    pub fn kg(&self, v: f64, d: usize) -> String {
+        match self.units {
+            Units::Metric => format!("{} kg", num(v, d)),
+            Units::Imperial => format!("{} lb ({} kg)", num(v / 0.453_592_37, d), num(v, d)),
         }
     }
     /// An area in mm² (imperial: square inches first).

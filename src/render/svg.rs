@@ -223,10 +223,7 @@ pub fn chart(c: &Chart) -> String {
             .flat_map(|s| s.points.iter().map(|p| p.1)),
         true,
     );
-    let pw = W - L - R;
-    let ph = H - T - B;
-    let px = |v: f64| L + x.frac(v).clamp(-0.05, 1.05) * pw;
-    let py = |a: &Axis, v: f64| T + ph - a.frac(v).clamp(-0.05, 1.05) * ph;
+    let pl = Plot { x, y, y2 };
     let mut s = String::new();
     let _ = write!(
         s,
@@ -244,8 +241,42 @@ pub fn chart(c: &Chart) -> String {
     );
     let _ = write!(
         s,
-        r#"<g class="axes" stroke="black" fill="none"><rect x="{L}" y="{T}" width="{pw}" height="{ph}"/></g>"#
+        r#"<g class="axes" stroke="black" fill="none"><rect x="{L}" y="{T}" width="{}" height="{}"/></g>"#,
+        W - L - R,
+        H - T - B
     );
+    axes(&mut s, c, &pl);
+    series(&mut s, c, &pl);
+    markers(&mut s, c, &pl);
+    s += "</svg>\n";
+    s
+}
+
+/// The three axes of a chart and how a value maps to the page.
+struct Plot {
+    x: Axis,
+    y: Axis,
+    y2: Axis,
+}
+
+const PW: f64 = W - L - R;
+const PH: f64 = H - T - B;
+
+impl Plot {
+    fn px(&self, v: f64) -> f64 {
+        L + self.x.frac(v).clamp(-0.05, 1.05) * PW
+    }
+    fn py(&self, a: &Axis, v: f64) -> f64 {
+        T + PH - a.frac(v).clamp(-0.05, 1.05) * PH
+    }
+}
+
+/// Grid lines, tick labels and axis labels.
+fn axes(s: &mut String, c: &Chart, pl: &Plot) {
+    let (pw, ph) = (PW, PH);
+    let (x, y, y2) = (&pl.x, &pl.y, &pl.y2);
+    let px = |v: f64| pl.px(v);
+    let py = |a: &Axis, v: f64| pl.py(a, v);
     for t in x.ticks() {
         let xp = px(t);
         let _ = write!(
@@ -261,7 +292,7 @@ pub fn chart(c: &Chart) -> String {
         );
     }
     for t in y.ticks() {
-        let yp = py(&y, t);
+        let yp = py(y, t);
         let _ = write!(
             s,
             r##"<line x1="{L}" y1="{yp:.1}" x2="{:.1}" y2="{yp:.1}" stroke="#ddd"/>"##,
@@ -277,7 +308,7 @@ pub fn chart(c: &Chart) -> String {
     }
     if let Some(lbl) = &c.y2_label {
         for t in y2.ticks() {
-            let yp = py(&y2, t);
+            let yp = py(y2, t);
             let _ = write!(
                 s,
                 r#"<text x="{:.1}" y="{:.1}" text-anchor="start">{}</text>"#,
@@ -310,8 +341,15 @@ pub fn chart(c: &Chart) -> String {
         T + ph / 2.0,
         esc(&c.y_label)
     );
+}
+
+/// Each series as a line, dots and a legend entry.
+fn series(s: &mut String, c: &Chart, pl: &Plot) {
+    let (y, y2) = (&pl.y, &pl.y2);
+    let px = |v: f64| pl.px(v);
+    let py = |a: &Axis, v: f64| pl.py(a, v);
     for (k, se) in c.series.iter().enumerate() {
-        let a = if se.right_axis { &y2 } else { &y };
+        let a = if se.right_axis { y2 } else { y };
         let pts: Vec<String> = se
             .points
             .iter()
@@ -352,6 +390,12 @@ pub fn chart(c: &Chart) -> String {
             esc(&se.label)
         );
     }
+}
+
+/// Vertical markers with their legend entries.
+fn markers(s: &mut String, c: &Chart, pl: &Plot) {
+    let ph = PH;
+    let px = |v: f64| pl.px(v);
     let n_series = c.series.len();
     for (k, m) in c.markers.iter().enumerate() {
         let xp = px(m.x);
@@ -369,8 +413,6 @@ pub fn chart(c: &Chart) -> String {
             esc(&m.label)
         );
     }
-    s += "</svg>\n";
-    s
 }
 
 #[cfg(test)]

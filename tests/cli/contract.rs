@@ -184,8 +184,21 @@ struct Buy {
 #[serde(deny_unknown_fields)]
 struct Check {
     name: String,
+    kind: CheckKind,
     ok: bool,
     detail: String,
+}
+
+/// DESIGN.md (v2): `verdict.checks[].kind` is one of a fixed vocabulary.
+#[derive(Deserialize, Debug, PartialEq)]
+#[serde(rename_all = "kebab-case")]
+enum CheckKind {
+    Flux,
+    Window,
+    Heating,
+    CurrentDensity,
+    PrimaryCurrent,
+    Output,
 }
 
 #[derive(Deserialize)]
@@ -207,6 +220,19 @@ fn every_example_plan_matches_the_mirror() {
         let doc = plan_doc(&p.display().to_string());
         assert!(!doc.windings.is_empty());
         assert!(!doc.cautions.is_empty(), "cautions always shown");
+        // Each check's kind is the kind its name says (DESIGN.md v2 vocabulary).
+        for c in &doc.verdict.checks {
+            let want = match c.name.as_str() {
+                "flux" => CheckKind::Flux,
+                "window" => CheckKind::Window,
+                "heating" => CheckKind::Heating,
+                "current density" => CheckKind::CurrentDensity,
+                "primary current" => CheckKind::PrimaryCurrent,
+                n if n.starts_with("output ") => CheckKind::Output,
+                n => panic!("unknown check name {n}"),
+            };
+            assert_eq!(c.kind, want, "{}", c.name);
+        }
         for w in &doc.windings {
             // Checkpoints (card issue): the last equals the coil's turns; each step is a full layer
             // except the last.
@@ -229,6 +255,7 @@ fn every_example_plan_matches_the_mirror() {
             for t in &w.taps {
                 assert!(t.turn >= 1 && t.turn <= w.turns, "tap inside the winding");
             }
+
             // 20 °C resistance is the hot one over the IEC 60028 factor 1 + 0.00393 (T − 20).
             let hot_t = doc.thermal.ambient_c + doc.thermal.max_rise_c;
             let factor = 1.0 + 0.00393 * (hot_t - 20.0);

@@ -1,24 +1,48 @@
-//! The plan as text tables for a terminal.
+//! The plan (`ironwind plan`, `demo`): text tables for a terminal, and the dispatch to its JSON and
+//! CSV forms.
 
-use super::{num, pairs, sig3, table, Look, Units};
+use super::{num, pairs, sig3, table, words, Format, Look, Units};
 use crate::magnetics::Waveform;
 use crate::plan::Plan;
 use crate::wire::Conductor;
 use std::io::Write;
 
-/// Writes the whole plan as tables.
-pub fn write_plan(out: &mut dyn Write, plan: &Plan, look: Look) -> std::io::Result<()> {
-    out.write_all(look.finish(plan_text(plan, look)).as_bytes())
+/// Writes a plan in a format: text tables, JSON or the CSV schedule.
+pub fn write(out: &mut dyn Write, plan: &Plan, format: Format, look: &Look) -> std::io::Result<()> {
+    match format {
+        Format::Json => super::json::write_plan(out, plan),
+        Format::Csv => super::csv::write_schedule(out, plan),
+        _ => out.write_all(look.finish(plan_text(plan, *look)).as_bytes()),
+    }
+}
+
+/// The line the demo prints before its plan.
+pub fn write_demo_intro(out: &mut dyn Write) -> std::io::Result<()> {
+    writeln!(
+        out,
+        "The bundled example (examples/garage_charger.toml), planned end to end.\n"
+    )
 }
 
 /// The plan as one string.
 pub fn plan_text(plan: &Plan, look: Look) -> String {
+    let mut s = format!("ironwind plan: {}\n\n", plan.name);
+    s += &core_section(plan, look);
+    s += &drive_section(plan, look);
+    s += &windings_section(plan, look);
+    s += &electrical_section(plan, look);
+    s += &window_section(plan, look);
+    s += &warnings_and_verdict(plan, look);
+    s
+}
+
+/// The core: measurements, areas, path, mass.
+fn core_section(plan: &Plan, look: Look) -> String {
     let cs = look.charset;
     let lk = &look;
     let mut s = String::new();
     let g = &plan.geometry;
     let c = &plan.core;
-    s += &format!("ironwind plan: {}\n\n", plan.name);
     s += "Core\n";
     s += &pairs(
         &[
@@ -85,6 +109,13 @@ pub fn plan_text(plan: &Plan, look: Look) -> String {
         ],
         cs,
     );
+    s
+}
+
+/// The drive and what the probe told the plan.
+fn drive_section(plan: &Plan, look: Look) -> String {
+    let cs = look.charset;
+    let mut s = String::new();
     let d = &plan.drive;
     let wf = match d.waveform {
         Waveform::Sine => "sine (primary volts RMS)".to_string(),
@@ -103,7 +134,7 @@ pub fn plan_text(plan: &Plan, look: Look) -> String {
                 "{} T peak (aimed at {} T: {})",
                 num(d.flux_density_t, 3),
                 num(d.design_flux_t, 2),
-                d.flux_source
+                words::flux_source(&d.flux_source)
             ),
         ),
         ("volts per turn", format!("{} V", num(d.volts_per_turn, 4))),
@@ -125,7 +156,7 @@ pub fn plan_text(plan: &Plan, look: Look) -> String {
     s += "\nDrive\n";
     s += &pairs(&drive, cs);
     if let Some(n) = &d.kept_output_note {
-        s += &format!("{n}\n");
+        s += &format!("{}\n", words::kept_output_note(n));
     }
     if let Some(p) = &plan.probe {
         let mut rows = Vec::new();
@@ -155,6 +186,14 @@ pub fn plan_text(plan: &Plan, look: Look) -> String {
             s += &pairs(&rows, cs);
         }
     }
+    s
+}
+
+/// The windings table, innermost first.
+fn windings_section(plan: &Plan, look: Look) -> String {
+    let cs = look.charset;
+    let lk = &look;
+    let mut s = String::new();
     s += "\nWindings (innermost first)\n";
     let mut rows = vec![vec![
         "winding".to_string(),
@@ -194,6 +233,14 @@ pub fn plan_text(plan: &Plan, look: Look) -> String {
     if plan.core.shape.name() == "ui" {
         s += "(U-I core: each winding is split over the two legs; turns per layer, layers and build are per half-coil.)\n";
     }
+    s
+}
+
+/// Mean turn, length, resistance, loss and volts of each winding; taps.
+fn electrical_section(plan: &Plan, look: Look) -> String {
+    let cs = look.charset;
+    let lk = &look;
+    let mut s = String::new();
     s += "\nElectrical\n";
     let mut rows = vec![vec![
         "winding".to_string(),
@@ -232,6 +279,14 @@ pub fn plan_text(plan: &Plan, look: Look) -> String {
             .collect();
         s += &format!("taps on \"{}\": {}\n", w.name, list.join(", "));
     }
+    s
+}
+
+/// Window fill, build, losses and heating.
+fn window_section(plan: &Plan, look: Look) -> String {
+    let cs = look.charset;
+    let lk = &look;
+    let mut s = String::new();
     s += "\nWindow, losses and heating\n";
     let win = &plan.window;
     let l = &plan.losses;
@@ -273,7 +328,6 @@ pub fn plan_text(plan: &Plan, look: Look) -> String {
         ],
         cs,
     );
-    s += &warnings_and_verdict(plan, look);
     s
 }
 
@@ -284,7 +338,7 @@ pub fn warnings_and_verdict(plan: &Plan, look: Look) -> String {
     if !plan.warnings.is_empty() {
         s += "\nWarnings\n";
         for w in &plan.warnings {
-            s += &format!("  ! {w}\n");
+            s += &format!("  ! {}\n", words::warning(w));
         }
     } else {
         s += "\n";
@@ -298,9 +352,9 @@ pub fn warnings_and_verdict(plan: &Plan, look: Look) -> String {
     let mut rows = vec![vec!["check".to_string(), "result".into(), "detail".into()]];
     for c in &plan.verdict.checks {
         rows.push(vec![
-            c.name.clone(),
+            c.name(),
             if c.ok { "ok".into() } else { "FAIL".into() },
-            c.detail.clone(),
+            words::check_detail(c),
         ]);
     }
     s += &table(rows, 99, cs);

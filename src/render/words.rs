@@ -1,0 +1,189 @@
+//! Sentences: every check, warning and note of the library, in words, once for every format.
+//!
+//! The library hands over kinds and figures (`verdict`, `capacity`, `rate`); this module is the only
+//! place they become text, so the plan's text, its JSON `detail` strings and the card agree.
+
+use crate::capacity::{Change, Limit};
+use crate::magnetics::Waveform;
+use crate::rate::RateNote;
+use crate::verdict::{Check, CheckFigures, FluxSource, KeptOutputNote, Warning};
+
+/// Where the design flux came from, in words.
+pub fn flux_source(s: &FluxSource) -> String {
+    match s {
+        FluxSource::Given => "given in the job".to_string(),
+        FluxSource::GivenAboveSweep => "given in the job (above the sweep's recommendation)".into(),
+        FluxSource::Sweep => "sweep: 0.9 × the IEC knee".to_string(),
+        FluxSource::Steel(name) => format!("steel default ({name})"),
+    }
+}
+
+/// One line of detail for a check.
+pub fn check_detail(c: &Check) -> String {
+    match &c.figures {
+        CheckFigures::Flux {
+            flux_t,
+            limit_t,
+            source,
+        } => format!(
+            "{flux_t:.3} T peak, limit {limit_t:.2} T ({})",
+            flux_source(source)
+        ),
+        CheckFigures::Window { no_turn_fits, .. } if *no_turn_fits => {
+            "a winding cannot get a single turn on a layer".to_string()
+        }
+        CheckFigures::Window {
+            build_mm,
+            available_mm,
+            copper_fill,
+            ..
+        } => format!(
+            "build {build_mm:.2} mm of {available_mm:.2} mm available; copper fill {copper_fill:.2}"
+        ),
+        CheckFigures::Heating { rise_c, limit_c } => {
+            format!("rise {rise_c:.1} °C, limit {limit_c:.0} °C")
+        }
+        CheckFigures::CurrentDensity {
+            highest_a_mm2,
+            winding,
+            limit_a_mm2,
+        } => format!(
+            "highest {highest_a_mm2:.2} A/mm² (\"{winding}\"), limit {limit_a_mm2:.2} A/mm²"
+        ),
+        CheckFigures::PrimaryCurrent { amps } if c.ok => format!("{amps:.2} A at full load"),
+        CheckFigures::PrimaryCurrent { .. } => {
+            "the primary's resistance is too high to pass the load's power".to_string()
+        }
+        CheckFigures::Output {
+            volts_full_load,
+            amps,
+            target_volts,
+            ..
+        } if c.ok => format!("{volts_full_load:.2} V at {amps:.2} A (target {target_volts:.2} V)"),
+        CheckFigures::Output {
+            volts_full_load,
+            amps,
+            target_volts,
+            max_volts,
+            ..
+        } => format!(
+            "{volts_full_load:.2} V at {amps:.2} A, short of {target_volts:.2} V; the most it can deliver is {:.2} V",
+            max_volts.unwrap_or(*volts_full_load).min(1e9)
+        ),
+    }
+}
+
+/// A warning or note, as one sentence.
+pub fn warning(w: &Warning) -> String {
+    match w {
+        Warning::DonorRunHard { flux_t, hard_t } => format!(
+            "the donor ran at {flux_t:.2} T, above the {hard_t:.1} T salvaged steel normally takes: it was run hard (as microwave-oven cores are); plan lower"
+        ),
+        Warning::DonorFluxImplausible { flux_t } => format!(
+            "the donor's flux works out at only {flux_t:.2} T: check the stack and tongue measurements and the test-winding reading"
+        ),
+        Warning::SweepBelowKnee { in_plan: true } => "the sweep does not reach the IEC knee (10 % more volts never gave 50 % more current inside it): the flux cap is not known; sweep higher".to_string(),
+        Warning::SweepBelowKnee { in_plan: false } => "the sweep does not reach the IEC knee (10 % more volts never gave 50 % more current inside it): sweep higher".to_string(),
+        Warning::NoTangentPoint => {
+            "the log-log slope never crosses 45° inside the sweep: no tangent point".to_string()
+        }
+        Warning::DonorAboveRecommended {
+            donor_t,
+            recommended_t,
+        } => format!(
+            "the donor ran at {donor_t:.2} T, above the sweep's recommended {recommended_t:.2} T"
+        ),
+        Warning::PathLengthEstimated => "no --window given: the path length for the field strength assumes scrapless E-I proportions".to_string(),
+        Warning::GivenFluxAboveSweep {
+            given_t,
+            recommended_t,
+        } => format!(
+            "the given flux {given_t:.2} T is above the sweep's recommended {recommended_t:.2} T (0.9 × the IEC knee): kept as given, expect a high idle current"
+        ),
+        Warning::FluxAboveKneeMargin {
+            flux_t,
+            margin_t,
+            knee_t,
+        } => format!(
+            "planned flux {flux_t:.2} T is above the knee margin {margin_t:.2} T (0.9 × the IEC knee {knee_t:.2} T): the idle current will be high and the core may saturate"
+        ),
+        Warning::FluxAboveDonor { flux_t, donor_t } => {
+            format!("planned flux {flux_t:.2} T is above the {donor_t:.2} T the donor ran at")
+        }
+        Warning::KeptOutputAboveDonor { ratio } => format!(
+            "the core runs at {ratio:.2} × the flux the donor was built for and no sweep shows the knee margin: sweep the kept winding before relying on it"
+        ),
+        Warning::HardToWind { copper_fill, limit } => format!(
+            "copper fill {copper_fill:.2} is above {limit:.2} (McLyman's window utilisation): hard to wind by hand"
+        ),
+        Warning::HighPrimaryCurrent { amps } => format!(
+            "the primary draws {amps:.0} A at full load: use parallel strands or strip, and thick, short leads"
+        ),
+        Warning::SquareDrive => "square and quasi-square drives add eddy loss and harmonics the core-loss estimate leaves out; fuse for the bridge's peak current".to_string(),
+        Warning::ManyStrands { winding, strands } => format!(
+            "\"{winding}\" needs {strands} strands in hand: consider strip conductor (strip_mm)"
+        ),
+    }
+}
+
+/// How a kept output's drive compares with the donor's sine flux, in words.
+pub fn kept_output_note(n: &KeptOutputNote) -> String {
+    let ratio = n.flux_t / n.donor_flux_t;
+    let (name, flux, donor) = (&n.winding, n.flux_t, n.donor_flux_t);
+    match n.waveform {
+        Waveform::Sine => format!(
+            "kept output \"{name}\": sine drive at {:.4} V per turn; the core runs at {flux:.3} T against the donor's {donor:.3} T (×{ratio:.3})",
+            n.volts_per_turn
+        ),
+        wf => format!(
+            "kept output \"{name}\": a square drive at the donor's RMS volts per turn runs the core at 4.443/4 = 1.11 × the sine flux it was built for{}; here {flux:.3} T against the donor's {donor:.3} T (×{ratio:.3})",
+            match wf {
+                Waveform::QuasiSquare { duty } => format!(
+                    ", times √δ = {:.3} for quasi-square at duty {duty}",
+                    duty.sqrt()
+                ),
+                _ => String::new(),
+            }
+        ),
+    }
+}
+
+/// The limit that binds a capacity, as a person reads it.
+pub fn limit(l: Limit) -> &'static str {
+    match l {
+        Limit::Window => "window",
+        Limit::Heating => "heating",
+        Limit::Regulation => "regulation",
+        Limit::FluxTurns => "flux/turns",
+    }
+}
+
+/// A change that would let a core carry more, in words.
+pub fn change(c: &Change) -> String {
+    match c {
+        Change::DeeperStack { stack_mm } => {
+            format!("stack 25 % deeper ({stack_mm:.1} mm of laminations)")
+        }
+        Change::LowerFlux { flux_t } => format!("lower flux {flux_t:.2} T (more turns)"),
+        Change::Strip {
+            winding,
+            width_mm,
+            thickness_mm,
+        } => format!(
+            "strip conductor on \"{winding}\" ({width_mm:.0} mm wide, {thickness_mm} mm foils in hand)"
+        ),
+        Change::ForcedAir => {
+            "forced air (a fan; taken as twice the heat shed, common practice)".to_string()
+        }
+    }
+}
+
+/// A note on a rating.
+pub fn rate_note(n: &RateNote) -> String {
+    match n {
+        RateNote::IntermittentDuty { duty } => format!(
+            "intermittent duty {duty}: heating is rated on the time-averaged copper loss; this assumes each load period is short against the core's thermal time constant (minutes to tens of minutes)"
+        ),
+        RateNote::QuickEstimates => "the area-product and rule-of-thumb figures are quick estimates; the capacity comes from full plans with losses and heating".to_string(),
+    }
+}
