@@ -785,6 +785,13 @@ amps = 6
         assert_eq!(j.core_text[1], "1.5 in");
     }
 
+    /// `text` with `from` replaced; fails when `from` is missing, so no case tests the good job.
+    #[track_caller]
+    fn edited(text: &str, from: &str, to: &str) -> String {
+        assert!(text.contains(from), "`{from}` is not in the job");
+        text.replace(from, to)
+    }
+
     #[track_caller]
     fn bad(text: &str, needle: &str) {
         let e = parse_job(text, "job.toml", &no_sweep).expect_err("must fail");
@@ -798,40 +805,40 @@ amps = 6
     #[test]
     fn bad_inputs_name_the_key() {
         bad(
-            &GOOD.replace("tongue_mm = 32.0", "tongue_mm = -3"),
+            &edited(GOOD, "tongue_mm = 32.0", "tongue_mm = -3"),
             "tongue_mm",
         );
         bad(
-            &GOOD.replace("tongue_mm = 32.0", "tongu_mm = 32"),
+            &edited(GOOD, "tongue_mm = 32.0", "tongu_mm = 32"),
             "tongu_mm",
         );
-        bad(&GOOD.replace("tongue_mm = 32.0", ""), "tongue_mm");
+        bad(&edited(GOOD, "tongue_mm = 32.0", ""), "tongue_mm");
         bad(
-            &GOOD.replace("frequency_hz = 50", "frequency_hz = 5000"),
+            &edited(GOOD, "frequency_hz = 50", "frequency_hz = 5000"),
             "frequency_hz",
         );
         bad(
-            &GOOD.replace("[supply]", "[supply]\nwaveform = \"triangle\""),
+            &edited(GOOD, "[supply]", "[supply]\nwaveform = \"triangle\""),
             "waveform",
         );
         bad(
-            &GOOD.replace("role = \"secondary\"", "role = \"primary\""),
+            &edited(GOOD, "role = \"secondary\"", "role = \"primary\""),
             "primary",
         );
         bad(
-            &GOOD.replace("stack_mm = \"1.5 in\"", "stack_mm = \"12 furlongs\""),
+            &edited(GOOD, "stack_mm = \"1.5 in\"", "stack_mm = \"12 furlongs\""),
             "stack_mm",
         );
         bad(
-            &GOOD.replace("[supply]", "[limits]\nflux_density_t = 5.0\n[supply]"),
+            &edited(GOOD, "[supply]", "[limits]\nflux_density_t = 5.0\n[supply]"),
             "flux_density_t",
         );
-        bad(&GOOD.replace("[supply]", "[core.extra]\n[supply]"), "extra");
+        bad(&edited(GOOD, "[supply]", "[core.extra]\n[supply]"), "extra");
         bad(
-            &GOOD.replace("name = \"out\"", "name = \"mains\""),
+            &edited(GOOD, "name = \"out\"", "name = \"mains\""),
             "unique",
         );
-        bad(&GOOD.replace("amps = 6", ""), "amps");
+        bad(&edited(GOOD, "amps = 6", ""), "amps");
         bad("[core", "line 1");
         bad("", "empty");
     }

@@ -527,7 +527,13 @@ pub fn today() -> String {
         .duration_since(std::time::UNIX_EPOCH)
         .map(|d| d.as_secs())
         .unwrap_or(0);
-    let z = (secs / 86_400) as i64 + 719_468;
+    civil_date((secs / 86_400) as i64)
+}
+
+/// The date (proleptic Gregorian, YYYY-MM-DD) of a day counted from 1970-01-01 (Hinnant's
+/// civil-from-days).
+pub fn civil_date(days: i64) -> String {
+    let z = days + 719_468;
     let era = z.div_euclid(146_097);
     let doe = z.rem_euclid(146_097);
     let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
@@ -866,5 +872,23 @@ mod tests {
         let d = today();
         assert_eq!(d.len(), 10);
         assert!(d.starts_with("20"));
+    }
+
+    #[test]
+    fn day_counts_give_calendar_dates() {
+        // Day counts from 1970-01-01 of known dates (proleptic Gregorian calendar, as computed by
+        // any general date library): leap days of a 400-year century and not of a 100-year one.
+        for (days, date) in [
+            (0, "1970-01-01"),
+            (-1, "1969-12-31"),
+            (11_016, "2000-02-29"),
+            (11_017, "2000-03-01"),
+            (-25_508, "1900-03-01"),
+            (47_540, "2100-02-28"),
+            (20_088, "2024-12-31"),
+            (20_789, "2026-12-02"),
+        ] {
+            assert_eq!(civil_date(days), date, "day {days}");
+        }
     }
 }

@@ -370,6 +370,96 @@ pub fn choose(
     }
 }
 
+/// One row of a wire table as `ironwind wire --list` shows it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TableRow {
+    /// The size.
+    pub size: &'static RoundSize,
+    /// Resistance per metre at 20 °C (IEC 60028), Ω/m.
+    pub ohm_per_m_20c: f64,
+    /// Current at 3 A/mm², A.
+    pub amps_at_3_a_mm2: f64,
+}
+
+/// A size and strands chosen for a current.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ChoiceReport {
+    /// Current to carry, A.
+    pub amps: f64,
+    /// The current density asked for, A/mm².
+    pub density_limit_a_mm2: f64,
+    /// The enamel grade.
+    pub grade: Grade,
+    /// The system.
+    pub system: System,
+    /// The wire.
+    pub choice: WireChoice,
+    /// Current density reached, A/mm².
+    pub current_density_a_mm2: f64,
+    /// The same as circular mils per ampere.
+    pub cmil_per_a: f64,
+}
+
+/// What `ironwind wire` reports: a whole table, or a choice for a current.
+#[derive(Debug, Clone, PartialEq)]
+pub enum WireReport {
+    /// The table of a system and grade.
+    Table {
+        /// The system.
+        system: System,
+        /// The enamel grade.
+        grade: Grade,
+        /// Its rows, thinnest first.
+        rows: Vec<TableRow>,
+    },
+    /// A choice.
+    Choice(ChoiceReport),
+}
+
+/// The table of a system and grade.
+pub fn table_report(system: System, grade: Grade) -> WireReport {
+    WireReport::Table {
+        system,
+        grade,
+        rows: sizes(system, grade)
+            .iter()
+            .map(|r| TableRow {
+                size: r,
+                ohm_per_m_20c: crate::losses::resistance_ohm(1.0, r.area_mm2, 20.0),
+                amps_at_3_a_mm2: 3.0 * r.area_mm2,
+            })
+            .collect(),
+    }
+}
+
+/// The wire chosen for a current at a current density, by the plan's own rule.
+pub fn choice_report(
+    amps: f64,
+    density: f64,
+    system: System,
+    grade: Grade,
+    max_strand_mm: f64,
+) -> WireReport {
+    let choice = choose(
+        amps,
+        density,
+        system,
+        grade,
+        max_strand_mm,
+        &WireRequest::default(),
+    );
+    let area = choice.area_mm2();
+    WireReport::Choice(ChoiceReport {
+        amps,
+        density_limit_a_mm2: density,
+        grade,
+        system,
+        current_density_a_mm2: amps / area,
+        cmil_per_a: area / MM2_PER_CMIL / amps,
+        choice,
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -596,94 +686,4 @@ mod tests {
         assert_eq!(find_size("1.6 mm", Grade::Two).expect("1.6").size, "1.60");
         assert_eq!(find_size("14 awg", Grade::One).expect("14").size, "14");
     }
-}
-
-/// One row of a wire table as `ironwind wire --list` shows it.
-#[derive(Debug, Clone, PartialEq)]
-pub struct TableRow {
-    /// The size.
-    pub size: &'static RoundSize,
-    /// Resistance per metre at 20 °C (IEC 60028), Ω/m.
-    pub ohm_per_m_20c: f64,
-    /// Current at 3 A/mm², A.
-    pub amps_at_3_a_mm2: f64,
-}
-
-/// A size and strands chosen for a current.
-#[derive(Debug, Clone, PartialEq)]
-pub struct ChoiceReport {
-    /// Current to carry, A.
-    pub amps: f64,
-    /// The current density asked for, A/mm².
-    pub density_limit_a_mm2: f64,
-    /// The enamel grade.
-    pub grade: Grade,
-    /// The system.
-    pub system: System,
-    /// The wire.
-    pub choice: WireChoice,
-    /// Current density reached, A/mm².
-    pub current_density_a_mm2: f64,
-    /// The same as circular mils per ampere.
-    pub cmil_per_a: f64,
-}
-
-/// What `ironwind wire` reports: a whole table, or a choice for a current.
-#[derive(Debug, Clone, PartialEq)]
-pub enum WireReport {
-    /// The table of a system and grade.
-    Table {
-        /// The system.
-        system: System,
-        /// The enamel grade.
-        grade: Grade,
-        /// Its rows, thinnest first.
-        rows: Vec<TableRow>,
-    },
-    /// A choice.
-    Choice(ChoiceReport),
-}
-
-/// The table of a system and grade.
-pub fn table_report(system: System, grade: Grade) -> WireReport {
-    WireReport::Table {
-        system,
-        grade,
-        rows: sizes(system, grade)
-            .iter()
-            .map(|r| TableRow {
-                size: r,
-                ohm_per_m_20c: crate::losses::resistance_ohm(1.0, r.area_mm2, 20.0),
-                amps_at_3_a_mm2: 3.0 * r.area_mm2,
-            })
-            .collect(),
-    }
-}
-
-/// The wire chosen for a current at a current density, by the plan's own rule.
-pub fn choice_report(
-    amps: f64,
-    density: f64,
-    system: System,
-    grade: Grade,
-    max_strand_mm: f64,
-) -> WireReport {
-    let choice = choose(
-        amps,
-        density,
-        system,
-        grade,
-        max_strand_mm,
-        &WireRequest::default(),
-    );
-    let area = choice.area_mm2();
-    WireReport::Choice(ChoiceReport {
-        amps,
-        density_limit_a_mm2: density,
-        grade,
-        system,
-        current_density_a_mm2: amps / area,
-        cmil_per_a: area / MM2_PER_CMIL / amps,
-        choice,
-    })
 }

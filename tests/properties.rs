@@ -250,7 +250,7 @@ proptest! {
     #![proptest_config(config(40))]
 
     #[test]
-    fn capacity_never_falls_when_the_stack_grows(g in gen(), k in 1.05..1.6f64) {
+    fn capacity_falls_by_at_most_one_wire_step_when_the_stack_grows(g in gen(), k in 1.05..1.6f64) {
         // Mains frequency and the steel's own flux, on cores whose iron loss is under half the heat
         // they can shed. Where iron loss is most of it (a massive stack round a small window, or a
         // high flux and frequency) a deeper stack adds more iron loss than surface and capacity can

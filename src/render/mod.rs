@@ -271,7 +271,30 @@ mod tests {
     }
 
     #[test]
-    fn ascii_is_ascii() {
-        assert!(asciify("1.2 Ω at 20 °C, 3 mm² ≤ 4 × 5 ✓").is_ascii());
+    fn every_symbol_has_its_own_ascii_form() {
+        // Each symbol ironwind prints maps to a readable ASCII form, never the `?` fallback: a
+        // mapping removed from `asciify` fails its row here.
+        for (symbol, ascii) in [
+            ("20 °C", "20 degC"),
+            ("mm²", "mm2"),
+            ("cm³", "cm3"),
+            ("cm⁴", "cm4"),
+            ("≤", "<="),
+            ("≥", ">="),
+            ("4 × 5", "4 x 5"),
+            ("Ω", "ohm"),
+            ("√VA", "sqrtVA"),
+            ("a–b—c", "a-b-c"),
+            ("N·m", "N*m"),
+            ("δ", "duty"),
+            ("“q”", "\"q\""),
+            ("it’s", "it's"),
+            ("…", "..."),
+            ("✓", "ok"),
+            ("✗", "FAIL"),
+        ] {
+            assert_eq!(asciify(symbol), ascii, "{symbol}");
+        }
+        assert_eq!(asciify("é"), "?", "an unknown symbol still becomes ASCII");
     }
 }

@@ -91,6 +91,9 @@ fn list_text(l: &Listing, look: &Look) -> String {
         "V/turn".into(),
         "added".into(),
     ]];
+    for cell in t[0].iter_mut() {
+        *cell = look.heading(cell);
+    }
     for c in &l.cores {
         let (e, d, g) = (&c.entry, &c.values.dims, &c.geometry);
         let pair = |a: &str, b: &str, av: f64, bv: f64| {
@@ -143,7 +146,7 @@ pub fn write_show(
     let s = pairs(
         &[
             ("id", e.id.to_string()),
-            ("label", e.label.clone()),
+            ("label", look.heading(&e.label)),
             ("shape", e.shape.clone()),
             (
                 "tongue × stack",

@@ -63,6 +63,9 @@ fn table_text(r: &WireReport, look: &Look) -> String {
         t[0].insert(2, "bare in".into());
         t[0].push("cmil".into());
     }
+    for cell in t[0].iter_mut() {
+        *cell = look.heading(cell);
+    }
     for r in rows {
         let mut row = vec![
             r.size.size.clone(),
@@ -114,7 +117,7 @@ fn choice_text(c: &ChoiceReport, look: &Look) -> String {
                 "wire",
                 format!(
                     "{} ({})",
-                    super::plan::wire_label(k, look),
+                    look.heading(&super::plan::wire_label(k, look)),
                     c.grade.label(c.system)
                 ),
             ),

@@ -203,3 +203,61 @@ fn buy_list_totals_each_size_with_the_spare() {
         }
     }
 }
+
+/// Foils in hand lie on each other: each layer is every foil thick. The drawing's layer lines must
+/// be spread evenly across the whole band the plan's build gives (a layer of n foils plus the
+/// interlayer between two), not crowded at the start as a single foil's thickness would put them.
+#[test]
+fn strip_foils_in_hand_are_drawn_to_scale() {
+    let d = scratch("card-strip");
+    let job = crate::common::edited(
+        GOOD_JOB,
+        "amps = 4.0",
+        "amps = 20.0\nstrip_mm = [20.0, 0.3]\nstrands = 3",
+    );
+    let job = crate::common::edited(&job, "volts = 28.0", "volts = 6.0");
+    let path = write(&d, "strip.toml", &job);
+    let plan = run(&["plan", &path, "--format", "json"]).ok().json();
+    let w = &plan["windings"][1];
+    let layers = w["layers"].as_u64().expect("layers") as usize;
+    let build = w["build_mm"].as_f64().expect("build");
+    let interlayer = plan["settings"]["interlayer_mm"].as_f64().expect("il");
+    assert!(layers >= 3, "a strip winding of several layers: {layers}");
+    let svg = run(&["card", &path, "--format", "svg"]).ok().stdout;
+    let doc = roxmltree::Document::parse(&svg).expect("SVG parses");
+    let num = |n: &roxmltree::Node, a: &str| -> f64 {
+        n.attribute(a).expect("attribute").parse().expect("number")
+    };
+    let band = doc
+        .descendants()
+        .filter(|n| n.attribute("class") == Some("winding"))
+        .nth(1)
+        .expect("the second winding's band");
+    let (x, width) = (num(&band, "x"), num(&band, "width"));
+    // Drawn in mm at 1:1 inside the viewBox, rounded to 0.01 mm.
+    const DRAWN: f64 = 0.011;
+    assert!(
+        (width - build).abs() < DRAWN,
+        "band {width} vs build {build}"
+    );
+    let mut lines: Vec<f64> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("line") && n.attribute("stroke-width") == Some("0.12"))
+        .map(|n| num(&n, "x1"))
+        .filter(|&lx| lx > x && lx < x + width)
+        .collect();
+    lines.sort_by(f64::total_cmp);
+    assert_eq!(lines.len(), layers - 1, "one line between each two layers");
+    // By hand: a layer is 3 foils of 0.3 + 0.1 mm insulation = 1.2 mm; the pitch of the lines is a
+    // layer plus the interlayer, and the last line sits one layer (plus half an interlayer) inside
+    // the band's outer face.
+    let pitch = 3.0 * 0.4 + interlayer;
+    for pair in lines.windows(2) {
+        assert!((pair[1] - pair[0] - pitch).abs() < 2.0 * DRAWN, "{lines:?}");
+    }
+    let last_gap = x + width - lines[layers - 2];
+    assert!(
+        (last_gap - (1.2 + interlayer / 2.0)).abs() < 2.0 * DRAWN,
+        "last line {last_gap} mm inside the band"
+    );
+}

@@ -74,7 +74,20 @@ pub fn run(args: &[&str]) -> Ran {
 
 /// Runs ironwind with `args`, optional stdin bytes and extra environment.
 pub fn run_with(args: &[&str], stdin: Option<&[u8]>, env: &[(&str, &str)]) -> Ran {
+    run_full(None, args, stdin, env)
+}
+
+/// Runs ironwind in directory `dir` (the child's working directory; the test process's own is
+/// never changed, so tests running beside it are not moved).
+pub fn run_in(dir: &Path, args: &[&str], env: &[(&str, &str)]) -> Ran {
+    run_full(Some(dir), args, None, env)
+}
+
+fn run_full(dir: Option<&Path>, args: &[&str], stdin: Option<&[u8]>, env: &[(&str, &str)]) -> Ran {
     let mut cmd = Command::new(env!("CARGO_BIN_EXE_ironwind"));
+    if let Some(d) = dir {
+        cmd.current_dir(d);
+    }
     cmd.args(args)
         .stdin(if stdin.is_some() {
             Stdio::piped()
@@ -153,3 +166,14 @@ role = "secondary"
 volts = 28.0
 amps = 4.0
 "#;
+
+/// `text` with `from` replaced by `to`; fails when `from` is not in the text, so a test that edits
+/// a job cannot silently test the unedited one.
+#[track_caller]
+pub fn edited(text: &str, from: &str, to: &str) -> String {
+    assert!(
+        text.contains(from),
+        "the text to replace, `{from}`, is not in:\n{text}"
+    );
+    text.replace(from, to)
+}

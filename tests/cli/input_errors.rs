@@ -1,6 +1,6 @@
 //! Bad input of every class listed for `plan`: one line on stderr naming the file and the key, exit 2.
 
-use crate::common::{run, scratch, write, GOOD_JOB};
+use crate::common::{edited, run, scratch, write, GOOD_JOB};
 
 #[track_caller]
 fn refused(name: &str, text: &str, key: &str) {
@@ -16,30 +16,31 @@ fn refused(name: &str, text: &str, key: &str) {
 #[test]
 fn every_bad_input_class_exits_2_naming_the_key() {
     let g = GOOD_JOB;
-    refused("missing", &g.replace("tongue_mm = 32.0\n", ""), "tongue_mm");
+    refused("missing", &edited(g, "tongue_mm = 32.0\n", ""), "tongue_mm");
     refused(
         "unknown",
-        &g.replace("tongue_mm", "tongue_width_mm"),
+        &edited(g, "tongue_mm", "tongue_width_mm"),
         "tongue_width_mm",
     );
     refused(
         "unknown-lists-accepted",
-        &g.replace("stack_mm", "stak_mm"),
+        &edited(g, "stack_mm", "stak_mm"),
         "stack_mm",
     );
     refused(
         "negative",
-        &g.replace("tongue_mm = 32.0", "tongue_mm = -32.0"),
+        &edited(g, "tongue_mm = 32.0", "tongue_mm = -32.0"),
         "tongue_mm",
     );
     refused(
         "zero",
-        &g.replace("window_height_mm = 48.0", "window_height_mm = 0"),
+        &edited(g, "window_height_mm = 48.0", "window_height_mm = 0"),
         "window_height_mm",
     );
     refused(
         "stacking-low",
-        &g.replace(
+        &edited(
+            g,
             "window_height_mm = 48.0",
             "window_height_mm = 48.0\nstacking_factor = 0.5",
         ),
@@ -47,7 +48,8 @@ fn every_bad_input_class_exits_2_naming_the_key() {
     );
     refused(
         "stacking-high",
-        &g.replace(
+        &edited(
+            g,
             "window_height_mm = 48.0",
             "window_height_mm = 48.0\nstacking_factor = 1.01",
         ),
@@ -55,27 +57,28 @@ fn every_bad_input_class_exits_2_naming_the_key() {
     );
     refused(
         "flux",
-        &g.replace("[supply]", "[limits]\nflux_density_t = 2.2\n[supply]"),
+        &edited(g, "[supply]", "[limits]\nflux_density_t = 2.2\n[supply]"),
         "flux_density_t",
     );
     refused(
         "freq-low",
-        &g.replace("frequency_hz = 50.0", "frequency_hz = 0.5"),
+        &edited(g, "frequency_hz = 50.0", "frequency_hz = 0.5"),
         "frequency_hz",
     );
     refused(
         "freq-high",
-        &g.replace("frequency_hz = 50.0", "frequency_hz = 2001"),
+        &edited(g, "frequency_hz = 50.0", "frequency_hz = 2001"),
         "frequency_hz",
     );
     refused(
         "no-primary",
-        &g.replace("role = \"primary\"", "role = \"secondary\"\namps = 1.0"),
+        &edited(g, "role = \"primary\"", "role = \"secondary\"\namps = 1.0"),
         "primary",
     );
     refused(
         "two-primaries",
-        &g.replace(
+        &edited(
+            g,
             "role = \"secondary\"\nvolts = 28.0\namps = 4.0",
             "role = \"primary\"\nvolts = 28.0",
         ),
@@ -83,33 +86,34 @@ fn every_bad_input_class_exits_2_naming_the_key() {
     );
     refused(
         "no-turn-fits",
-        &g.replace("amps = 4.0", "amps = 4.0\nsize = \"4.00\"\nstrands = 40"),
+        &edited(g, "amps = 4.0", "amps = 4.0\nsize = \"4.00\"\nstrands = 40"),
         "out",
     );
     refused("malformed", "[core\ntongue_mm = 3", "line 1");
     refused(
         "wrong-type",
-        &g.replace("volts = 230.0", "volts = \"lots\""),
+        &edited(g, "volts = 230.0", "volts = \"lots\""),
         "volts",
     );
     refused(
         "unit",
-        &g.replace("stack_mm = 40.0", "stack_mm = \"12 furlongs\""),
+        &edited(g, "stack_mm = 40.0", "stack_mm = \"12 furlongs\""),
         "stack_mm",
     );
     refused(
         "comma",
-        &g.replace("stack_mm = 40.0", "stack_mm = \"1,25 mm\""),
+        &edited(g, "stack_mm = 40.0", "stack_mm = \"1,25 mm\""),
         "stack_mm",
     );
     refused(
         "duplicate",
-        &g.replace("name = \"out\"", "name = \"mains\""),
+        &edited(g, "name = \"out\"", "name = \"mains\""),
         "name",
     );
     refused(
         "waveform",
-        &g.replace(
+        &edited(
+            g,
             "frequency_hz = 50.0",
             "frequency_hz = 50.0\nwaveform = \"sawtooth\"",
         ),
@@ -117,7 +121,8 @@ fn every_bad_input_class_exits_2_naming_the_key() {
     );
     refused(
         "duty",
-        &g.replace(
+        &edited(
+            g,
             "frequency_hz = 50.0",
             "frequency_hz = 50.0\nwaveform = \"quasi-square\"\nduty = 1.5",
         ),
@@ -125,24 +130,25 @@ fn every_bad_input_class_exits_2_naming_the_key() {
     );
     refused(
         "size",
-        &g.replace("amps = 4.0", "amps = 4.0\nsize = \"1.50\""),
+        &edited(g, "amps = 4.0", "amps = 4.0\nsize = \"1.50\""),
         "size",
     );
     refused(
         "steel",
-        &g.replace(
+        &edited(
+            g,
             "window_height_mm = 48.0",
             "window_height_mm = 48.0\nsteel = \"cheese\"",
         ),
         "steel",
     );
-    refused("amps-missing", &g.replace("amps = 4.0\n", ""), "amps");
-    refused("nan", &g.replace("volts = 28.0", "volts = nan"), "volts");
-    refused("inf", &g.replace("volts = 28.0", "volts = inf"), "volts");
+    refused("amps-missing", &edited(g, "amps = 4.0\n", ""), "amps");
+    refused("nan", &edited(g, "volts = 28.0", "volts = nan"), "volts");
+    refused("inf", &edited(g, "volts = 28.0", "volts = inf"), "volts");
     refused("empty", "", "empty");
     refused(
         "tap-above",
-        &g.replace("amps = 4.0", "amps = 4.0\ntaps_volts = [30.0]"),
+        &edited(g, "amps = 4.0", "amps = 4.0\ntaps_volts = [30.0]"),
         "taps_volts",
     );
 }

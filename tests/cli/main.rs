@@ -8,6 +8,7 @@ mod corpus;
 mod demo;
 mod golden;
 mod input_errors;
+mod look;
 mod plan_cmd;
 mod probe_cmd;
 mod rate_cmd;

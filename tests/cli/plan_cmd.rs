@@ -1,6 +1,6 @@
 //! `ironwind plan`: the model against outside references, through the real binary.
 
-use crate::common::{example_jobs, run, scratch, write, GOOD_JOB};
+use crate::common::{edited, example_jobs, run, scratch, write, GOOD_JOB};
 use approx::assert_relative_eq;
 
 fn job_with(core: &str, supply: &str, windings: &str) -> String {
@@ -82,7 +82,7 @@ fn output_turns_rise_with_load_current() {
     let d = scratch("load");
     let mut last = 0;
     for amps in ["0.1", "2", "5", "8"] {
-        let text = GOOD_JOB.replace("amps = 4.0", &format!("amps = {amps}"));
+        let text = edited(GOOD_JOB, "amps = 4.0", &format!("amps = {amps}"));
         let j = plan_json(&d, &format!("l{amps}.toml"), &text);
         let ns = j["windings"][1]["turns"].as_u64().expect("ns");
         assert!(ns >= last, "{amps} A: {ns} turns after {last}");
@@ -183,7 +183,7 @@ fn design_model_figures_recomputed_from_json() {
 #[test]
 fn a_core_too_small_is_a_verdict_not_an_error() {
     let d = scratch("small");
-    let text = GOOD_JOB.replace("amps = 4.0", "amps = 40.0");
+    let text = edited(GOOD_JOB, "amps = 4.0", "amps = 40.0");
     let j = plan_json(&d, "small.toml", &text);
     assert_eq!(j["verdict"]["ok"], false);
     let failed: Vec<&str> = j["verdict"]["checks"]
@@ -200,7 +200,11 @@ fn a_core_too_small_is_a_verdict_not_an_error() {
 fn an_output_the_winding_cannot_reach_says_so() {
     // A heavy load through a thin forced wire: the full-load voltage peaks below the target.
     let d = scratch("reach");
-    let text = GOOD_JOB.replace("amps = 4.0", "amps = 4.0\nsize = \"0.100\"\nstrands = 1");
+    let text = edited(
+        GOOD_JOB,
+        "amps = 4.0",
+        "amps = 4.0\nsize = \"0.100\"\nstrands = 1",
+    );
     let j = plan_json(&d, "reach.toml", &text);
     let check = j["verdict"]["checks"]
         .as_array()
@@ -222,12 +226,12 @@ fn lengths_in_inches_plan_like_millimetres() {
     let mm = plan_json(
         &d,
         "mm.toml",
-        &GOOD_JOB.replace("tongue_mm = 32.0", "tongue_mm = 31.75"),
+        &edited(GOOD_JOB, "tongue_mm = 32.0", "tongue_mm = 31.75"),
     );
     let inch = plan_json(
         &d,
         "in.toml",
-        &GOOD_JOB.replace("tongue_mm = 32.0", "tongue_mm = \"1.25 in\""),
+        &edited(GOOD_JOB, "tongue_mm = 32.0", "tongue_mm = \"1.25 in\""),
     );
     assert_eq!(mm["windings"], inch["windings"]);
 }

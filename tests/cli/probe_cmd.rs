@@ -1,6 +1,6 @@
 //! `ironwind probe` and probe data in job files (kept windings).
 
-use crate::common::{root, run, scratch, write};
+use crate::common::{edited, root, run, scratch, write};
 use approx::assert_relative_eq;
 
 /// The IEC 61869-2 knee of I = a·V + b·V^n in closed form (the definition solved exactly):
@@ -263,7 +263,8 @@ fn square_drive_on_a_kept_output_warns_at_the_knee_margin() {
     // 4.443/4: the same RMS volts per turn under a full square wave is 1.11 × the sine's peak flux.
     let j = ups_job_json(
         |t| {
-            t.replace(
+            edited(
+                &t,
                 "waveform = \"quasi-square\"\nduty = 0.7",
                 "waveform = \"square\"",
             )
@@ -289,7 +290,8 @@ fn sweep_caps_the_flux_and_a_higher_given_flux_is_kept_with_a_warning() {
     );
     let j = ups_job_json(
         |t| {
-            t.replace(
+            edited(
+                &t,
                 "current_density_a_mm2 = 3.5",
                 "current_density_a_mm2 = 3.5\nflux_density_t = 1.4",
             )

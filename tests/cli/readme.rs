@@ -1,6 +1,6 @@
 //! Every `ironwind` command in the README runs, as written (outputs redirected to a scratch folder).
 
-use crate::common::{root, run_with, scratch};
+use crate::common::{root, run_in, scratch};
 
 fn words(line: &str) -> Vec<String> {
     let mut out = Vec::new();
@@ -70,10 +70,8 @@ fn readme_commands_run() {
             })
             .collect();
         let argv: Vec<&str> = args.iter().map(String::as_str).collect();
-        let cwd = std::env::current_dir().expect("cwd");
-        std::env::set_current_dir(root()).expect("root");
-        let r = run_with(&argv, None, &[("IRONWIND_SHELF", &shelf)]);
-        std::env::set_current_dir(cwd).expect("back");
+        // The README's commands run from the repository's root (the child's directory, not ours).
+        let r = run_in(&root(), &argv, &[("IRONWIND_SHELF", &shelf)]);
         assert_eq!(r.code, 0, "README: `{line}`: {}", r.stderr);
         if let Some(t) = target {
             let name = std::path::Path::new(&t)

@@ -1,0 +1,104 @@
+//! The Look (units, colour, charset) reaches every command: `--units imperial` prints inches where a
+//! length is shown, `--color always` colours the verdict words, `--color never` and NO_COLOR print no
+//! escape at all, help included.
+
+use crate::common::run_with;
+
+const SHELF: &str = "tests/golden/shelf.csv";
+const JOB: &str = "examples/garage_charger.toml";
+
+fn commands() -> Vec<Vec<&'static str>> {
+    vec![
+        vec!["plan", JOB],
+        vec!["card", JOB],
+        vec!["demo"],
+        vec![
+            "core", "--tongue", "32", "--stack", "40", "--window", "16x48",
+        ],
+        vec!["wire", "--amps", "12"],
+        vec!["wire", "--list"],
+        vec![
+            "probe",
+            "--test-turns",
+            "10",
+            "--test-volts",
+            "2.31",
+            "--applied-volts",
+            "230",
+            "--tongue",
+            "38",
+            "--stack",
+            "62",
+        ],
+        vec!["rate", JOB],
+        vec!["shelf", "--shelf", SHELF, "list"],
+        vec!["shelf", "--shelf", SHELF, "show", "1"],
+        vec!["shelf", "--shelf", SHELF, "rank", JOB],
+    ]
+}
+
+fn with(flags: &[&'static str], cmd: &[&'static str]) -> Vec<&'static str> {
+    flags.iter().chain(cmd).copied().collect()
+}
+
+#[test]
+fn imperial_units_reach_every_command_that_shows_a_length() {
+    // `shelf rank` shows no length (margins, losses, rises and fills only).
+    for cmd in commands().into_iter().filter(|c| !c.contains(&"rank")) {
+        let r = run_with(&with(&["--units", "imperial"], &cmd), None, &[]).ok();
+        let has_inches = r.stdout.contains(" in ")
+            || r.stdout.contains(" in)")
+            || r.stdout.contains(" in²")
+            || r.stdout.contains(" in\n")
+            || r.stdout.contains("in ×")
+            || r.stdout.contains("bare in")
+            || r.stdout.contains("AWG");
+        assert!(
+            has_inches,
+            "{cmd:?} shows no inch or AWG figure:\n{}",
+            r.stdout
+        );
+        let metric = run_with(&cmd, None, &[]).ok();
+        assert_ne!(r.stdout, metric.stdout, "{cmd:?}: imperial changes nothing");
+    }
+}
+
+#[test]
+fn colour_always_marks_verdict_words_and_never_prints_no_escape() {
+    for cmd in commands() {
+        let plain = run_with(&with(&["--color", "never"], &cmd), None, &[]).ok();
+        assert!(!plain.stdout.contains('\x1b'), "{cmd:?} --color never");
+        let auto = run_with(&cmd, None, &[("NO_COLOR", "1")]).ok();
+        assert!(!auto.stdout.contains('\x1b'), "{cmd:?} with NO_COLOR");
+        let coloured = run_with(&with(&["--color", "always"], &cmd), None, &[]).ok();
+        assert!(coloured.stdout.contains('\x1b'), "{cmd:?} --color always");
+    }
+    // Verdict words in colour: green for a pass, red for a failure.
+    let r = run_with(
+        &["--color", "always", "rate", JOB, "--va", "900"],
+        None,
+        &[],
+    )
+    .ok();
+    assert!(
+        r.stdout.contains("\x1b[1;31mDOES NOT CARRY"),
+        "{}",
+        r.stdout
+    );
+    let r = run_with(&["--color", "always", "plan", JOB], None, &[]).ok();
+    assert!(
+        r.stdout.contains("\x1b[1;32mevery check passes"),
+        "{}",
+        r.stdout
+    );
+}
+
+#[test]
+fn help_follows_the_colour_flag() {
+    let never = run_with(&["--color", "never", "--help"], None, &[]).ok();
+    assert!(!never.stdout.contains('\x1b'));
+    let always = run_with(&["--color", "always", "plan", "--help"], None, &[]).ok();
+    assert!(always.stdout.contains('\x1b'), "{}", always.stdout);
+    let env = run_with(&["core", "--help"], None, &[("NO_COLOR", "1")]).ok();
+    assert!(!env.stdout.contains('\x1b'));
+}
