@@ -7,7 +7,7 @@ fuzz_target!(|data: &[u8]| {
         let pairs: Vec<(f64, f64)> = points.iter().map(|p| (p.volts, p.amps)).collect();
         if let Ok(curve) = ironwind::magnetics::ExcitationCurve::new(&pairs) {
             let run = ironwind::probe::probe_run(None, Some((&curve, 100)), 50.0, 1000.0, 200.0, false);
-            let _ = ironwind::probe::sweep_plot(&run);
+            let _ = ironwind::render::probe::sweep_chart(&run);
         }
     }
 });
