@@ -63,6 +63,12 @@ pub struct SteelRow {
     pub loss_w_per_kg_1t5_50hz: f64,
     /// Default design flux density, T.
     pub design_flux_t: f64,
+    /// Share of the 50 Hz sine loss that is hysteresis (from memory).
+    pub hysteresis_share: f64,
+    /// Share that is classical eddy-current loss (from memory).
+    pub eddy_share: f64,
+    /// Share that is excess (anomalous) loss (from memory).
+    pub excess_share: f64,
     /// Where the row's numbers come from.
     pub source: String,
 }
@@ -148,6 +154,10 @@ mod tests {
     fn steel_rows_positive() {
         for r in steel() {
             assert!(r.loss_w_per_kg_1t5_50hz > 0.0 && r.design_flux_t > 0.0);
+            let shares = [r.hysteresis_share, r.eddy_share, r.excess_share];
+            assert!(shares.iter().all(|&s| s >= 0.0), "{}", r.name);
+            let sum: f64 = shares.iter().sum();
+            assert!((sum - 1.0).abs() < 1e-9, "{}: shares sum to {sum}", r.name);
         }
     }
 }

@@ -218,6 +218,7 @@ fn winding(name: &str, role: Role, volts: f64, amps: f64) -> WindingSpec {
         volts,
         amps,
         wire: WireRequest::default(),
+        current_density_a_mm2: None,
         taps_volts: Vec::new(),
         kept: false,
         rated_volts: None,

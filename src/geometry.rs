@@ -2,8 +2,9 @@
 //!
 //! Shape `ei` (shell type, coil on the tongue): a = tongue, s = stack, w × h = one window, outer leg
 //! c and yoke y default to a/2 (the scrapless proportions, McLyman, Transformer and Inductor Design
-//! Handbook, ch. 3). Ae = k·a·s, Aw = w·h, Ap = Ae·Aw, le = a + 2w + c + 2h + 2y (rectangular centre
-//! line), mass = ρ·k·s·((a + 2w + 2c)(h + 2y) − 2wh).
+//! Handbook, ch. 3). Ae = k·a·s, Aw = w·h, Ap = Ae·Aw, le = a/2 + 2w + c + 2h + 2y (the centre line
+//! of each half of the flux: it divides in the tongue, so each half runs in half the tongue's width;
+//! McLyman's EI-150 table lists 22.9 cm), mass = ρ·k·s·((a + 2w + 2c)(h + 2y) − 2wh).
 //! Shape `ui` (core type, two legs of width a, yokes y default a): Ae = k·a·s, Aw = w·h,
 //! le = 2a + 2w + 2h + 2y, mass = ρ·k·s·((2a + w)(h + 2y) − wh).
 //! Steel density 7.65 g/cm³ (IEC 60404-8-7 grain-oriented, used for all grades as the default).
@@ -134,7 +135,7 @@ pub fn geometry(d: &CoreDims) -> CoreGeometry {
                 ow,
                 oh,
                 ow * oh - 2.0 * w * h,
-                a + 2.0 * w + c + 2.0 * h + 2.0 * y,
+                a / 2.0 + 2.0 * w + c + 2.0 * h + 2.0 * y,
             )
         }
         Shape::Ui => {
@@ -221,14 +222,24 @@ mod tests {
         assert_relative_eq!(g.area_net_mm2, 1216.0, max_relative = GEOM);
         assert_relative_eq!(g.window_area_mm2, 768.0, max_relative = GEOM);
         assert_relative_eq!(g.area_product_cm4, 93.3888, max_relative = GEOM);
-        // le = 32 + 32 + 16 + 96 + 32 = 208 mm.
-        assert_relative_eq!(g.path_length_mm, 208.0, max_relative = GEOM);
+        // le = 16 + 32 + 16 + 96 + 32 = 192 mm.
+        assert_relative_eq!(g.path_length_mm, 192.0, max_relative = GEOM);
         // face = 96·80 − 2·768 = 6144 mm²; mass = 7.65e-6·0.95·40·6144 = 1.786 kg.
         assert_relative_eq!(
             g.mass_kg,
             7.65e-6 * 0.95 * 40.0 * 6144.0,
             max_relative = GEOM
         );
+    }
+
+    #[test]
+    fn ei150_path_length_from_mclyman() {
+        // McLyman, Transformer and Inductor Design Handbook, lamination table: EI-150 (tongue
+        // 1.5 in, scrapless: window 0.75 × 2.25 in) has a magnetic path length of 22.9 cm, which
+        // the table quotes to three figures.
+        let a = 1.5 * 25.4;
+        let g = geometry(&CoreDims::new(Shape::Ei, a, a, (a / 2.0, 1.5 * a), 0.95));
+        assert_relative_eq!(g.path_length_mm / 10.0, 22.9, max_relative = 0.003);
     }
 
     #[test]

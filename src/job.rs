@@ -147,6 +147,9 @@ pub struct WindingSpec {
     pub amps: f64,
     /// What the job asks of the conductor.
     pub wire: WireRequest,
+    /// This winding's own current density for the wire choice, A/mm² (`rate` sets it per winding;
+    /// None: the job's `[limits] current_density_a_mm2`).
+    pub current_density_a_mm2: Option<f64>,
     /// Tap voltages of an output, V RMS, ascending.
     pub taps_volts: Vec<f64>,
     /// Whether this is the donor's own winding, left on the core.
@@ -607,6 +610,7 @@ fn winding_table(
         volts,
         amps,
         wire,
+        current_density_a_mm2: None,
         taps_volts,
         kept,
         rated_volts: rated,

@@ -5,7 +5,8 @@
 //! - Temperature rise of a transformer cooled by natural convection (McLyman, Transformer and Inductor
 //!   Design Handbook, ch. 6): ΔT = 450 · ψ^0.826 °C, ψ = total loss / surface area in W/cm².
 //! - Surface: the box around core and coil, A_t = 2(W·H + W·D + H·D).
-//! - Efficiency η = P_out / (P_out + P_cu + P_core); regulation % = P_cu / (P_out + P_cu) · 100
+//! - Efficiency η = P_out / (P_out + P_cu + P_core); regulation % = (V_NL − V_FL)/V_FL · 100
+//!   (McLyman, Transformer and Inductor Design Handbook: α, per output winding)
 //!   (McLyman's α ≈ P_cu/P_o, in the form DESIGN.md fixes).
 
 /// Resistivity of annealed copper at 20 °C, Ω·mm²/m (IEC 60028).
@@ -62,13 +63,12 @@ pub fn efficiency(p_out: f64, p_cu: f64, p_core: f64) -> f64 {
     }
 }
 
-/// Regulation, %.
-pub fn regulation_pct(p_out: f64, p_cu: f64) -> f64 {
-    let total = p_out + p_cu;
-    if total <= 0.0 {
-        0.0
+/// Regulation of an output, % (McLyman): (V_NL − V_FL)/V_FL · 100.
+pub fn regulation_pct(v_no_load: f64, v_full_load: f64) -> f64 {
+    if v_full_load > 0.0 {
+        (v_no_load - v_full_load) / v_full_load * 100.0
     } else {
-        p_cu / total * 100.0
+        f64::INFINITY
     }
 }
 
@@ -120,6 +120,7 @@ mod tests {
     #[test]
     fn efficiency_and_regulation() {
         assert_relative_eq!(efficiency(90.0, 6.0, 4.0), 0.9, max_relative = 1e-12);
-        assert_relative_eq!(regulation_pct(94.0, 6.0), 6.0, max_relative = 1e-12);
+        // McLyman: α = (V_NL − V_FL)/V_FL · 100; 26.5 V with no load, 25.0 V at full load → 6 %.
+        assert_relative_eq!(regulation_pct(26.5, 25.0), 6.0, max_relative = 1e-12);
     }
 }

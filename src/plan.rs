@@ -4,10 +4,15 @@
 //! - primary turns N_p = ceil(exact N from the EMF equation at the design flux); the actual flux is
 //!   recomputed from N_p;
 //! - volts per turn v = V_p,rms / N_p; each output gets the smallest whole N_s whose full-load voltage
-//!   N_s·v − I_s·(R_s + R_p·(N_s/N_p)²) reaches its target (resistive load, leakage reactance
-//!   neglected, hot resistances). The full-load voltage is concave in N_s: when even its maximum falls
-//!   short, the output check fails and the plan shows the most the winding delivers;
+//!   V_s,FL = (N_s/N_p)·(V_p − I_p·R_p) − I_s·R_s reaches its target: every output sees the drop of
+//!   the WHOLE primary current in the primary (resistive loads, in phase; leakage reactance neglected;
+//!   hot resistances). I_p = Σ I_s·N_s/N_p + the core-loss current, so V_s,FL is concave in N_s: when
+//!   even its maximum falls short, the output check fails and the plan shows the most the winding
+//!   delivers. The outputs are solved together, by the fixed-point loop below;
+//! - regulation of each output (McLyman's definition): (V_NL − V_FL)/V_FL·100, V_NL at rated volts;
 //! - primary current from the power balance I_p·V_p = P_out + P_cu,out + P_core + I_p²·R_p;
+//! - core loss under square and quasi-square drive scaled by loss separation (`magnetics`); above
+//!   1.9 T the core is past saturation and the loss figures are not an estimate of anything;
 //! - kept donor windings take their turns from the test winding's volts per turn; a kept output sets
 //!   the largest N_p for which it still reaches its target.
 //!
@@ -28,11 +33,16 @@ use crate::probe::{
     donor_flux_notes, no_load_amps, sweep_report, test_report, Sweep, SweepReport, TestReport,
     TestWinding,
 };
-use crate::verdict::{Check, CheckFigures, FluxSource, KeptOutputNote, Verdict, Warning};
-use crate::wire::{choose, Conductor, WireChoice};
+use crate::verdict::{
+    Check, CheckFigures, FluxSource, KeptLimit, KeptOutputNote, Verdict, Warning,
+};
+use crate::wire::{choose, Conductor, KeptCopper, WireChoice, KEPT_COPPER_FRACTION};
 
 /// Window fill above which hand winding gets hard (McLyman's window utilisation Ku = 0.4).
 pub const HAND_FILL_LIMIT: f64 = 0.4;
+/// Peak flux above which silicon steel is past saturation, T (common practice: saturation 2.0 T,
+/// REFERENCES.md; the loss model is not extrapolated past 1.9 T).
+pub const SATURATION_T: f64 = 1.9;
 /// Primary current above which leads and strands deserve a warning, A (common practice).
 pub const HIGH_CURRENT_A: f64 = 30.0;
 
@@ -74,6 +84,8 @@ pub struct Drive {
     pub flux_vs_donor: Option<f64>,
     /// How the drive compares with the donor's own sine, when a kept output sets the turns.
     pub kept_output_note: Option<KeptOutputNote>,
+    /// The most a kept output gives at the design flux.
+    pub kept_limit: Option<KeptLimit>,
 }
 
 /// A tap on an output.
@@ -126,6 +138,8 @@ pub struct WindingPlan {
     pub volts_no_load: f64,
     /// Full-load volts (RMS).
     pub volts_full_load: f64,
+    /// Regulation (V_NL − V_FL)/V_FL, % (outputs only).
+    pub regulation_pct: Option<f64>,
     /// The most this winding can deliver at full load, V (outputs only).
     pub max_volts_full_load: Option<f64>,
     /// Taps.
@@ -158,8 +172,12 @@ pub struct LossPlan {
     pub output_w: f64,
     /// Efficiency, fraction.
     pub efficiency: f64,
-    /// Regulation, %.
+    /// The largest output regulation, % (McLyman's definition, per output on each winding).
     pub regulation_pct: f64,
+    /// The core loss over the sine figure at the same peak flux (loss separation; 1 for sine).
+    pub core_waveform_factor: f64,
+    /// The flux is past saturation (above 1.9 T): the loss and efficiency figures are not estimates.
+    pub saturated: bool,
 }
 
 /// Heating.
@@ -373,6 +391,9 @@ struct State {
     wires: Vec<WireChoice>,
     primary_amps: f64,
     n_p: u32,
+    /// Each winding's mean turn in the last layout, mm (a kept winding's copper from its
+    /// resistance needs its length).
+    mean_turns_mm: Vec<f64>,
 }
 
 /// The first guess: primary turns from the EMF equation (or the kept winding), outputs by ratio.
@@ -412,6 +433,12 @@ fn initial_state(c: &Ctx) -> State {
             })
             .collect(),
         wires: Vec::new(),
+        mean_turns_mm: vec![
+            2.0 * (job.core.tongue_mm + job.core.stack_mm)
+                + 8.0 * job.layout.bobbin_wall_mm
+                + std::f64::consts::PI * job.core.window_width_mm / 2.0;
+            job.windings.len()
+        ],
         primary_amps: p_out_guess / c.v_p_rms / 0.9,
         n_p,
     }
@@ -436,16 +463,23 @@ struct Next {
 }
 
 /// Wires from the currents, by the job's choice rule.
-fn choose_wires(c: &Ctx, primary_amps: f64) -> Vec<WireChoice> {
+fn choose_wires(c: &Ctx, st: &State) -> Vec<WireChoice> {
     let job = c.job;
     job.windings
         .iter()
         .enumerate()
         .map(|(i, w)| {
-            let amps = if i == c.p_idx { primary_amps } else { w.amps };
+            let amps = if i == c.p_idx {
+                st.primary_amps
+            } else {
+                w.amps
+            };
+            if w.kept && w.wire.size.is_none() && w.wire.strip_mm.is_none() {
+                return kept_wire(c, st, i, amps);
+            }
             choose(
                 amps,
-                job.current_density_a_mm2,
+                w.current_density_a_mm2.unwrap_or(job.current_density_a_mm2),
                 job.system,
                 job.grade,
                 job.max_strand_mm,
@@ -453,6 +487,36 @@ fn choose_wires(c: &Ctx, primary_amps: f64) -> Vec<WireChoice> {
             )
         })
         .collect()
+}
+
+/// A kept winding's copper, which nobody chose: from its measured resistance (ρ·N·MLT/R), else its
+/// measured build (McLyman's copper fraction of the build × traverse), else its current at the job's
+/// current density.
+fn kept_wire(c: &Ctx, st: &State, i: usize, amps: f64) -> WireChoice {
+    let job = c.job;
+    let w = &job.windings[i];
+    let n = st.turns[i].max(1) as f64;
+    let (area, source) = match (w.resistance_ohm, w.build_mm) {
+        (Some(r20), _) => (
+            crate::losses::RHO20_OHM_MM2_PER_M * n * st.mean_turns_mm[i] / 1000.0 / r20,
+            KeptCopper::Resistance,
+        ),
+        (None, Some(b)) => {
+            let traverse = job.core.window_height_mm
+                - 2.0 * job.layout.bobbin_wall_mm
+                - 2.0 * job.layout.margin_mm;
+            let per_coil = crate::layout::coil_turns(job.core.shape, st.turns[i]).max(1) as f64;
+            (
+                KEPT_COPPER_FRACTION * b * traverse.max(0.0) / per_coil,
+                KeptCopper::Build,
+            )
+        }
+        (None, None) => (amps / job.current_density_a_mm2, KeptCopper::Current),
+    };
+    WireChoice {
+        conductor: Conductor::kept(area, source),
+        strands: 1,
+    }
 }
 
 /// The coil laid out with the current turns and wires.
@@ -491,11 +555,23 @@ fn hot_per_turn(c: &Ctx, st: &State, lay: &Layout) -> Vec<f64> {
         .collect()
 }
 
+/// An output's full-load volts: (N_s/N_p)·(V_p − I_p·R_p) − I_s·R_s.
+pub fn full_load_volts(
+    n_s: f64,
+    n_p: u32,
+    v_p: f64,
+    i_p: f64,
+    r_p: f64,
+    i_s: f64,
+    r_s: f64,
+) -> f64 {
+    n_s / n_p as f64 * (v_p - i_p * r_p) - i_s * r_s
+}
+
 /// The primary current from the power balance I·V = P_out + P_cu,out + P_core + I²·R_p; false when
 /// the primary's resistance cannot pass that power.
-fn primary_current(c: &Ctx, st: &State, r_hot: &[f64], v_turn: f64, core_w: f64) -> (f64, bool) {
+fn primary_current(c: &Ctx, st: &State, r_hot: &[f64], core_w: f64) -> (f64, bool) {
     let r_p = r_hot[c.p_idx];
-    let b = r_p / (st.n_p as f64 * st.n_p as f64);
     let mut p_out = 0.0;
     let mut p_cu_out = 0.0;
     for (i, w) in c.job.windings.iter().enumerate() {
@@ -503,7 +579,7 @@ fn primary_current(c: &Ctx, st: &State, r_hot: &[f64], v_turn: f64, core_w: f64)
             continue;
         }
         let n = st.turns[i] as f64;
-        let vfl = n * v_turn - w.amps * (r_hot[i] + b * n * n);
+        let vfl = full_load_volts(n, st.n_p, c.v_p_rms, st.primary_amps, r_p, w.amps, r_hot[i]);
         p_out += vfl.max(0.0) * w.amps;
         p_cu_out += w.amps * w.amps * r_hot[i];
     }
@@ -534,11 +610,12 @@ fn next_turns(
     let mut max_fl = vec![None; job.windings.len()];
     let mut new_np = st.n_p;
     if let Some(k) = c.kept_output() {
-        // The kept output sets N_p: largest N_p with N_k·V/N_p − I_k(R_k + r_p·N_k²/N_p) ≥ V_k.
+        // The kept output sets N_p: the largest N_p with (N_k/N_p)(V_p − I_p·r_p·N_p) − I_k·R_k ≥ V_k,
+        // r_p the primary's resistance per turn: N_p ≤ N_k·V_p / (V_k + I_k·R_k + N_k·I_p·r_p).
         let wk = &job.windings[k];
         let nk = st.turns[k] as f64;
-        let num = nk * c.v_p_rms - wk.amps * per_turn[c.p_idx] * nk * nk;
-        let den = wk.volts + wk.amps * r_hot[k];
+        let num = nk * c.v_p_rms;
+        let den = wk.volts + wk.amps * r_hot[k] + nk * st.primary_amps * per_turn[c.p_idx];
         new_np = if num > 0.0 {
             ((num / den * (1.0 + 1e-12)).floor().clamp(1.0, 1e7)) as u32
         } else {
@@ -552,20 +629,27 @@ fn next_turns(
             continue;
         }
         let a = per_turn[i];
-        let lin = v_turn - w.amps * a;
-        let fl = |x: f64| x * v_turn - w.amps * (a * x + b * x * x);
+        // The primary current less this output's own reflected current: the drop it causes in the
+        // primary acts on this output like a lower volts per turn.
+        let v = v_turn - r_hot[c.p_idx] * rest_of_primary(st, i, w.amps) / st.n_p as f64;
+        let lin = v - w.amps * a;
+        let fl = |x: f64| x * v - w.amps * (a * x + b * x * x);
         max_fl[i] = Some(if b > 0.0 && w.amps > 0.0 {
             fl((lin / (2.0 * w.amps * b)).round().max(1.0))
         } else {
             f64::INFINITY
         });
         if !w.kept {
-            turns[i] = smallest_turns(w.volts, v_turn, w.amps, a, b)
-                .0
-                .min(10_000_000);
+            turns[i] = smallest_turns(w.volts, v, w.amps, a, b).0.min(10_000_000);
         }
     }
     (turns, new_np, max_fl)
+}
+
+/// The primary current less output `i`'s own reflected load current I_s·N_s/N_p (the other outputs'
+/// currents, and the core-loss current, which this output's turns do not change).
+fn rest_of_primary(st: &State, i: usize, amps: f64) -> f64 {
+    st.primary_amps - amps * st.turns[i] as f64 / st.n_p as f64
 }
 
 /// One round of the fixed-point loop: wires from the currents, layout, resistances, the primary
@@ -575,16 +659,18 @@ fn one_round(c: &Ctx, st: &mut State) -> (Round, Next) {
     let (f, ae) = (job.frequency_hz, c.g.area_net_mm2);
     let flux = job.waveform.flux_t(c.primary().volts, f, st.n_p as f64, ae);
     let v_turn = c.v_p_rms / st.n_p as f64;
-    let core_w = core_loss_w(c.g.mass_kg, job.steel.loss_w_per_kg_1t5, flux, f);
-    st.wires = choose_wires(c, st.primary_amps);
+    let core_w = core_loss_w(c.g.mass_kg, job.steel.loss_w_per_kg_1t5, flux, f)
+        * job.waveform.loss_factor(job.steel.shares);
+    st.wires = choose_wires(c, st);
     let lay = lay_out(c, st);
+    st.mean_turns_mm = lay.coils.iter().map(|co| co.mean_turn_mm).collect();
     let per_turn = hot_per_turn(c, st, &lay);
     let r_hot: Vec<f64> = per_turn
         .iter()
         .zip(&st.turns)
         .map(|(r, &n)| r * n as f64)
         .collect();
-    let (i_p, primary_ok) = primary_current(c, st, &r_hot, v_turn, core_w);
+    let (i_p, primary_ok) = primary_current(c, st, &r_hot, core_w);
     let (turns, n_p, max_fl) = next_turns(c, st, &per_turn, &r_hot, v_turn);
     let round = Round {
         lay,
@@ -607,15 +693,18 @@ fn one_round(c: &Ctx, st: &mut State) -> (Round, Next) {
 
 /// Runs rounds until nothing changes. A state that repeats (a wire size or a layer flipping at a
 /// boundary) settles on the turns that meet every target — the larger output, the smaller primary
-/// under a kept output — and is evaluated once more, so every figure belongs to one layout.
+/// under a kept output — and the wires for the largest primary current seen, and is evaluated once
+/// more, so every figure belongs to one layout and the plan does not fail its own checks.
 fn settle(c: &Ctx, st: &mut State) -> Round {
     let mut seen: Vec<(Vec<u32>, u64)> = Vec::new();
     let mut iterations = 0;
     let mut final_pass = false;
+    let mut most_amps = st.primary_amps;
     loop {
         iterations += 1;
         let (round, next) = one_round(c, st);
         let i_p = next.primary_amps;
+        most_amps = most_amps.max(i_p);
         let key = (next.turns.clone(), (i_p * 1e6).round() as u64);
         let settled =
             next.turns == st.turns && (i_p - st.primary_amps).abs() <= 1e-9 * i_p.max(1e-9);
@@ -634,6 +723,9 @@ fn settle(c: &Ctx, st: &mut State) -> Round {
             st.turns = turns;
             st.n_p = next.n_p.min(st.n_p);
             st.turns[c.p_idx] = st.n_p;
+            // The wires of the last round are chosen for the largest primary current of the cycle,
+            // so the current density check holds at whichever current the cycle settles on.
+            st.primary_amps = most_amps;
             final_pass = true;
             continue;
         }
@@ -647,7 +739,8 @@ fn settle(c: &Ctx, st: &mut State) -> Round {
 fn winding_figures(c: &Ctx, st: &State, r: &Round) -> (Vec<WindingPlan>, f64, f64) {
     let job = c.job;
     let p_idx = c.p_idx;
-    let b = r.r_hot[p_idx] / (st.n_p as f64 * st.n_p as f64);
+    let r_p = r.r_hot[p_idx];
+    let b = r_p / (st.n_p as f64 * st.n_p as f64);
     let mut windings = Vec::with_capacity(job.windings.len());
     let (mut p_out, mut p_cu) = (0.0, 0.0);
     for (i, w) in job.windings.iter().enumerate() {
@@ -665,8 +758,10 @@ fn winding_figures(c: &Ctx, st: &State, r: &Round) -> (Vec<WindingPlan>, f64, f6
             (c.v_p_rms, c.v_p_rms - amps * res)
         } else {
             let nf = n as f64;
-            (nf * r.v_turn, nf * r.v_turn - w.amps * (res + b * nf * nf))
+            let fl = full_load_volts(nf, st.n_p, c.v_p_rms, st.primary_amps, r_p, w.amps, res);
+            (nf * r.v_turn, fl)
         };
+        let v_eff = r.v_turn - r_p * rest_of_primary(st, i, w.amps) / st.n_p as f64;
         if i != p_idx {
             p_out += v_fl.max(0.0) * w.amps;
         }
@@ -675,7 +770,7 @@ fn winding_figures(c: &Ctx, st: &State, r: &Round) -> (Vec<WindingPlan>, f64, f6
             .iter()
             .map(|&tv| Tap {
                 volts: tv,
-                turn: smallest_turns(tv, r.v_turn, w.amps, res / n as f64, b)
+                turn: smallest_turns(tv, v_eff, w.amps, res / n as f64, b)
                     .0
                     .min(n),
             })
@@ -683,6 +778,7 @@ fn winding_figures(c: &Ctx, st: &State, r: &Round) -> (Vec<WindingPlan>, f64, f6
         let grade_label = match &wire.conductor {
             Conductor::Round(rs) => job.grade.label(rs.system),
             Conductor::Strip { .. } => "strip, insulated",
+            Conductor::Kept { .. } => "kept",
         };
         windings.push(WindingPlan {
             name: w.name.clone(),
@@ -704,6 +800,7 @@ fn winding_figures(c: &Ctx, st: &State, r: &Round) -> (Vec<WindingPlan>, f64, f6
             copper_loss_w: cu,
             volts_no_load: v_nl,
             volts_full_load: v_fl,
+            regulation_pct: (i != p_idx).then(|| regulation_pct(v_nl, v_fl)),
             max_volts_full_load: if i == p_idx { None } else { r.max_fl[i] },
             taps,
         });
@@ -750,6 +847,37 @@ fn kept_output_note(c: &Ctx, r: &Round) -> Option<KeptOutputNote> {
     })
 }
 
+/// The most a kept output gives at the design flux: the primary turns that hold the flux to it
+/// (N_p = ceil of the EMF equation's), then its full-load volts with the settled currents and
+/// resistances.
+fn kept_limit(c: &Ctx, st: &State, r: &Round) -> Option<KeptLimit> {
+    let k = c.kept_output()?;
+    let job = c.job;
+    let w = &job.windings[k];
+    let n_p = ceil_turns(job.waveform.turns_exact(
+        c.primary().volts,
+        job.frequency_hz,
+        c.design_flux,
+        c.g.area_net_mm2,
+    ));
+    let r_p_turn = r.r_hot[c.p_idx] / st.n_p as f64;
+    let volts = full_load_volts(
+        st.turns[k] as f64,
+        n_p,
+        c.v_p_rms,
+        st.primary_amps,
+        r_p_turn * n_p as f64,
+        w.amps,
+        r.r_hot[k],
+    );
+    Some(KeptLimit {
+        winding: w.name.clone(),
+        flux_t: c.design_flux,
+        volts,
+        target_volts: w.volts,
+    })
+}
+
 /// Warnings found once the plan has settled, in the order a person reads them.
 fn late_warnings(
     c: &Ctx,
@@ -759,6 +887,12 @@ fn late_warnings(
     w: &mut Vec<Warning>,
 ) {
     let flux = r.flux;
+    if flux > SATURATION_T {
+        w.push(Warning::PastSaturation {
+            flux_t: flux,
+            limit_t: SATURATION_T,
+        });
+    }
     if let Some(knee) = c.sweep_rep.as_ref().and_then(|s| s.knee_flux_t) {
         let rec = c.recommended.unwrap_or(knee);
         if flux > rec * (1.0 + 1e-9) {
@@ -796,7 +930,9 @@ fn late_warnings(
         c.job.waveform,
         Waveform::Square | Waveform::QuasiSquare { .. }
     ) {
-        w.push(Warning::SquareDrive);
+        w.push(Warning::SquareDrive {
+            loss_factor: c.job.waveform.loss_factor(c.job.steel.shares),
+        });
     }
     for wp in windings {
         if matches!(wp.wire.conductor, Conductor::Round(_)) && wp.wire.strands > 8 {
@@ -846,7 +982,8 @@ fn checks(
     ];
     let worst_j = windings
         .iter()
-        .filter(|w| w.resistance_ohm_measured(job).is_none())
+        // A kept winding's wire was not chosen: its current density is not a check of this design.
+        .filter(|w| !matches!(w.wire.conductor, Conductor::Kept { .. }))
         .map(|w| (w.current_density_a_mm2, w.name.as_str()))
         .fold((0.0, ""), |acc, x| if x.0 > acc.0 { x } else { acc });
     checks.push(Check {
@@ -883,6 +1020,10 @@ pub fn plan(job: &Job) -> Plan {
     let mut st = initial_state(&c);
     let r = settle(&c, &mut st);
     let (windings, p_out, p_cu) = winding_figures(&c, &st, &r);
+    let worst_regulation = windings
+        .iter()
+        .filter_map(|w| w.regulation_pct)
+        .fold(0.0, f64::max);
     let thermal = heating(&c, &r, p_cu);
     late_warnings(&c, &r, &windings, st.primary_amps, &mut warnings);
     let verdict = Verdict::new(checks(&c, &r, &windings, &thermal, st.primary_amps));
@@ -912,6 +1053,7 @@ pub fn plan(job: &Job) -> Plan {
             no_load_amps: c.sweep.map(|s| no_load_amps(s, f, ae, r.flux, st.n_p)),
             flux_vs_donor: c.test.as_ref().map(|(_, t)| r.flux / t.donor_flux_t),
             kept_output_note: kept_output_note(&c, &r),
+            kept_limit: kept_limit(&c, &st, &r),
         },
         windings,
         window: WindowPlan {
@@ -926,7 +1068,9 @@ pub fn plan(job: &Job) -> Plan {
             copper_w: p_cu,
             output_w: p_out,
             efficiency: efficiency(p_out, p_cu, r.core_w),
-            regulation_pct: regulation_pct(p_out, p_cu),
+            regulation_pct: worst_regulation,
+            core_waveform_factor: job.waveform.loss_factor(job.steel.shares),
+            saturated: r.flux > SATURATION_T,
         },
         thermal,
         probe,

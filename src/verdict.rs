@@ -251,8 +251,18 @@ pub enum Warning {
         /// Full-load primary current, A.
         amps: f64,
     },
-    /// Square and quasi-square drives add loss and harmonics the estimate leaves out.
-    SquareDrive,
+    /// A square or quasi-square drive: core loss scaled by loss separation; harmonics reach the load.
+    SquareDrive {
+        /// Core loss over the sine figure at the same peak flux.
+        loss_factor: f64,
+    },
+    /// The flux is past saturation: loss and efficiency figures are not estimates.
+    PastSaturation {
+        /// Planned flux, T.
+        flux_t: f64,
+        /// Where saturation begins, T.
+        limit_t: f64,
+    },
     /// Many round strands in hand: strip would suit better.
     ManyStrands {
         /// The winding.
@@ -275,4 +285,18 @@ pub struct KeptOutputNote {
     pub flux_t: f64,
     /// The donor's flux, T.
     pub donor_flux_t: f64,
+}
+
+/// The most a kept output winding gives at the design flux: with the primary turns that hold the
+/// flux to the design value, its full-load volts.
+#[derive(Debug, Clone, PartialEq)]
+pub struct KeptLimit {
+    /// The kept output.
+    pub winding: String,
+    /// The design flux, T.
+    pub flux_t: f64,
+    /// Its full-load volts there, V RMS.
+    pub volts: f64,
+    /// Its target, V RMS.
+    pub target_volts: f64,
 }

@@ -87,9 +87,46 @@ pub enum Conductor {
         /// Insulation added to each dimension, mm.
         insulation_mm: f64,
     },
+    /// A donor's own winding left on the core: nobody chose its wire. Its copper area comes from
+    /// its measured resistance, else from its measured build, else from its current at the job's
+    /// current density (an estimate, labelled so); its round-wire diameter follows from the area.
+    Kept {
+        /// Copper area, mm².
+        area_mm2: f64,
+        /// Diameter with enamel, mm.
+        overall_mm: f64,
+        /// Where the area comes from.
+        source: KeptCopper,
+    },
 }
 
+/// Where a kept winding's copper area comes from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum KeptCopper {
+    /// Its measured resistance, over its length.
+    Resistance,
+    /// Its measured build (McLyman's S1·S2 copper fraction of the winding's cross-section).
+    Build,
+    /// Its current at the job's current density (nothing measured).
+    Current,
+}
+
+/// Copper over the cross-section of a layer-wound round-wire winding: McLyman's S1·S2 (copper over
+/// wire area about 0.85 for mid gauges, wire over winding area about 0.6 for round heavy-film wire).
+pub const KEPT_COPPER_FRACTION: f64 = 0.85 * 0.6;
+
 impl Conductor {
+    /// A kept winding's conductor of copper area `area_mm2` (enamel taken as 7 % of the diameter,
+    /// grade 2 at about 1 mm, IS 13730-0-1).
+    pub fn kept(area_mm2: f64, source: KeptCopper) -> Conductor {
+        let area = area_mm2.max(1e-6);
+        Conductor::Kept {
+            area_mm2: area,
+            overall_mm: 1.07 * (4.0 * area / PI).sqrt(),
+            source,
+        }
+    }
+
     /// Copper area of one strand, mm².
     pub fn area_mm2(&self) -> f64 {
         match self {
@@ -99,6 +136,7 @@ impl Conductor {
                 thickness_mm,
                 ..
             } => width_mm * thickness_mm,
+            Conductor::Kept { area_mm2, .. } => *area_mm2,
         }
     }
     /// The size along the traverse, with insulation, mm (what a turn takes on a layer).
@@ -110,6 +148,7 @@ impl Conductor {
                 insulation_mm,
                 ..
             } => width_mm + insulation_mm,
+            Conductor::Kept { overall_mm, .. } => *overall_mm,
         }
     }
     /// The size in the build direction, with insulation, mm (what a layer adds).
@@ -121,6 +160,7 @@ impl Conductor {
                 insulation_mm,
                 ..
             } => thickness_mm + insulation_mm,
+            Conductor::Kept { overall_mm, .. } => *overall_mm,
         }
     }
     /// The bare dimension in the build direction (diameter or thickness), mm.
@@ -128,13 +168,15 @@ impl Conductor {
         match self {
             Conductor::Round(r) => r.bare_mm,
             Conductor::Strip { thickness_mm, .. } => *thickness_mm,
+            Conductor::Kept { overall_mm, .. } => overall_mm / 1.07,
         }
     }
-    /// `metric`, `awg` or `strip`.
+    /// `metric`, `awg`, `strip` or `kept`.
     pub fn system_name(&self) -> &'static str {
         match self {
             Conductor::Round(r) => r.system.name(),
             Conductor::Strip { .. } => "strip",
+            Conductor::Kept { .. } => "kept",
         }
     }
     /// The size label: `1.60`, `14`, or `10.0x1.00` for strip.
@@ -146,6 +188,7 @@ impl Conductor {
                 thickness_mm,
                 ..
             } => format!("{width_mm:.1}x{thickness_mm:.2}"),
+            Conductor::Kept { .. } => "kept".to_string(),
         }
     }
     /// A person's description: `1.60 mm`, `AWG 14`, `strip 10.0 x 1.00 mm`.
@@ -160,6 +203,7 @@ impl Conductor {
             } => {
                 format!("strip {width_mm:.1} x {thickness_mm:.2} mm")
             }
+            Conductor::Kept { .. } => "kept".to_string(),
         }
     }
 }

@@ -11,7 +11,7 @@ use super::{num, sig3, words, Charset, Format, Look};
 use crate::geometry::Shape;
 use crate::job::Role;
 use crate::plan::{Plan, WindingPlan};
-use crate::wire::Conductor;
+use crate::wire::{Conductor, KeptCopper};
 use std::fmt::Write as _;
 
 /// Card options.
@@ -89,23 +89,31 @@ fn role_word(w: &WindingPlan) -> &'static str {
 
 fn wire_text(w: &WindingPlan) -> String {
     let c = &w.wire.conductor;
-    if w.kept && w.resistance_measured {
-        return format!(
-            "the donor's own (measured {} ohm at 20 C)",
-            sig3(w.resistance_20c_ohm)
-        );
-    }
-    if w.kept {
-        return format!(
-            "the donor's own (taken as {} for its resistance and build)",
-            c.describe()
-        );
+    if let Conductor::Kept {
+        area_mm2, source, ..
+    } = c
+    {
+        return match source {
+            KeptCopper::Resistance => format!(
+                "the donor's own (measured {} ohm at 20 C)",
+                sig3(w.resistance_20c_ohm)
+            ),
+            KeptCopper::Build => format!(
+                "the donor's own (copper estimated from its build: about {} mm2)",
+                sig3(*area_mm2)
+            ),
+            KeptCopper::Current => format!(
+                "the donor's own (not measured: copper taken as {} mm2 for its current; measure its resistance)",
+                sig3(*area_mm2)
+            ),
+        };
     }
     let base = match c {
         Conductor::Round(r) => format!("{} ({}, {})", c.describe(), r.system.name(), w.grade_label),
         Conductor::Strip { insulation_mm, .. } => {
             format!("{} (insulated {} mm)", c.describe(), num(*insulation_mm, 2))
         }
+        Conductor::Kept { .. } => "the donor's own".to_string(),
     };
     let strands = if w.wire.strands == 1 {
         "1 strand".to_string()

@@ -111,6 +111,21 @@ pub struct DriveJson<'a> {
     pub flux_vs_donor: Option<f64>,
     /// The kept-output comparison of drive and donor (null otherwise).
     pub kept_output_note: Option<String>,
+    /// The most a kept output gives at the design flux (null otherwise).
+    pub kept_limit: Option<KeptLimitJson<'a>>,
+}
+
+/// The most a kept output gives at the design flux.
+#[derive(Debug, Serialize)]
+pub struct KeptLimitJson<'a> {
+    /// The kept output.
+    pub winding: &'a str,
+    /// The design flux, T.
+    pub flux_t: f64,
+    /// Its full-load volts there.
+    pub volts_full_load: f64,
+    /// The sentence.
+    pub detail: String,
 }
 
 /// Conductor keys.
@@ -190,6 +205,8 @@ pub struct WindingJson<'a> {
     pub volts_no_load: f64,
     /// Full-load volts.
     pub volts_full_load: f64,
+    /// Regulation (V_NL − V_FL)/V_FL, % (null on the primary).
+    pub regulation_pct: Option<f64>,
     /// The most this winding delivers at full load, V.
     pub max_volts_full_load: Option<f64>,
     /// Taps.
@@ -222,8 +239,12 @@ pub struct LossesJson {
     pub output_w: f64,
     /// Efficiency.
     pub efficiency: f64,
-    /// Regulation, %.
+    /// The worst output's regulation, %.
     pub regulation_pct: f64,
+    /// Core loss over the sine figure at the same peak flux (loss separation).
+    pub core_waveform_factor: f64,
+    /// Past saturation: the loss figures are not estimates.
+    pub saturated: bool,
 }
 
 /// Thermal keys.
@@ -398,6 +419,12 @@ fn drive_json(plan: &Plan) -> DriveJson<'_> {
             .kept_output_note
             .as_ref()
             .map(words::kept_output_note),
+        kept_limit: plan.drive.kept_limit.as_ref().map(|k| KeptLimitJson {
+            winding: &k.winding,
+            flux_t: k.flux_t,
+            volts_full_load: k.volts,
+            detail: words::kept_limit(k),
+        }),
     }
 }
 
@@ -435,6 +462,7 @@ fn winding_json(w: &WindingPlan) -> WindingJson<'_> {
         copper_mass_g: w.copper_mass_g,
         volts_no_load: w.volts_no_load,
         volts_full_load: w.volts_full_load,
+        regulation_pct: w.regulation_pct,
         max_volts_full_load: w.max_volts_full_load.filter(|v| v.is_finite()),
         taps: w
             .taps
@@ -505,6 +533,8 @@ pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
             output_w: plan.losses.output_w,
             efficiency: plan.losses.efficiency,
             regulation_pct: plan.losses.regulation_pct,
+            core_waveform_factor: plan.losses.core_waveform_factor,
+            saturated: plan.losses.saturated,
         },
         thermal: ThermalJson {
             surface_cm2: plan.thermal.surface_cm2,

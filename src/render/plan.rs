@@ -158,6 +158,9 @@ fn drive_section(plan: &Plan, look: Look) -> String {
     if let Some(n) = &d.kept_output_note {
         s += &format!("{}\n", words::kept_output_note(n));
     }
+    if let Some(k) = &d.kept_limit {
+        s += &format!("{}\n", words::kept_limit(k));
+    }
     if let Some(p) = &plan.probe {
         let mut rows = Vec::new();
         if let Some(v) = p.volts_per_turn {
@@ -254,6 +257,7 @@ fn electrical_section(plan: &Plan, look: Look) -> String {
         "copper W".into(),
         "no-load V".into(),
         "full-load V".into(),
+        "regulation %".into(),
     ]];
     for w in &plan.windings {
         rows.push(vec![
@@ -268,6 +272,9 @@ fn electrical_section(plan: &Plan, look: Look) -> String {
             num(w.copper_loss_w, 2),
             num(w.volts_no_load, 2),
             num(w.volts_full_load, 2),
+            w.regulation_pct
+                .map(|r| num(r, 1))
+                .unwrap_or_else(|| "-".into()),
         ]);
     }
     s += &table(rows, 1, cs);
@@ -280,6 +287,30 @@ fn electrical_section(plan: &Plan, look: Look) -> String {
         s += &format!("taps on \"{}\": {}\n", w.name, list.join(", "));
     }
     s
+}
+
+/// The core loss, or why there is none to give.
+fn core_loss_text(plan: &Plan) -> String {
+    let l = &plan.losses;
+    if l.saturated {
+        return "not estimated: the core is past saturation".to_string();
+    }
+    if (l.core_waveform_factor - 1.0).abs() > 1e-12 {
+        return format!(
+            "{} W (estimate; {} × the sine figure, loss separation)",
+            num(l.core_w, 2),
+            num(l.core_waveform_factor, 3)
+        );
+    }
+    format!("{} W (estimate)", num(l.core_w, 2))
+}
+
+/// The efficiency, or why there is none to give.
+fn efficiency_text(plan: &Plan) -> String {
+    if plan.losses.saturated {
+        return "not estimated: the core is past saturation".to_string();
+    }
+    format!("{} %", num(plan.losses.efficiency * 100.0, 1))
 }
 
 /// Window fill, build, losses and heating.
@@ -303,11 +334,17 @@ fn window_section(plan: &Plan, look: Look) -> String {
                     if win.fits { "fits" } else { "does not fit" }
                 ),
             ),
-            ("core loss", format!("{} W (estimate)", num(l.core_w, 2))),
+            ("core loss", core_loss_text(plan)),
             ("copper loss", format!("{} W", num(l.copper_w, 2))),
             ("output", format!("{} W", num(l.output_w, 1))),
-            ("efficiency", format!("{} %", num(l.efficiency * 100.0, 1))),
-            ("regulation", format!("{} %", num(l.regulation_pct, 1))),
+            ("efficiency", efficiency_text(plan)),
+            (
+                "regulation",
+                format!(
+                    "{} % (the worst output; (V_NL − V_FL)/V_FL)",
+                    num(l.regulation_pct, 1)
+                ),
+            ),
             ("surface", format!("{} cm²", num(t.surface_cm2, 0))),
             (
                 "temperature rise",

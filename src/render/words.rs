@@ -6,7 +6,7 @@
 use crate::capacity::{Change, Limit};
 use crate::magnetics::Waveform;
 use crate::rate::RateNote;
-use crate::verdict::{Check, CheckFigures, FluxSource, KeptOutputNote, Warning};
+use crate::verdict::{Check, CheckFigures, FluxSource, KeptLimit, KeptOutputNote, Warning};
 
 /// Where the design flux came from, in words.
 pub fn flux_source(s: &FluxSource) -> String {
@@ -119,7 +119,12 @@ pub fn warning(w: &Warning) -> String {
         Warning::HighPrimaryCurrent { amps } => format!(
             "the primary draws {amps:.0} A at full load: use parallel strands or strip, and thick, short leads"
         ),
-        Warning::SquareDrive => "square and quasi-square drives add eddy loss and harmonics the core-loss estimate leaves out; fuse for the bridge's peak current".to_string(),
+        Warning::SquareDrive { loss_factor } => format!(
+            "square-wave drive: core loss taken as {loss_factor:.2} × the sine figure at the same peak flux (loss separation; a short conduction raises it, full square lowers it); the harmonics reach the load; fuse for the bridge's peak current"
+        ),
+        Warning::PastSaturation { flux_t, limit_t } => format!(
+            "the core runs at {flux_t:.2} T, past saturation (about {limit_t:.1} T for silicon steel): the magnetising current runs away, so the loss, heating and efficiency figures are not estimates of anything; lower the volts per turn (more primary turns)"
+        ),
         Warning::ManyStrands { winding, strands } => format!(
             "\"{winding}\" needs {strands} strands in hand: consider strip conductor (strip_mm)"
         ),
@@ -186,4 +191,20 @@ pub fn rate_note(n: &RateNote) -> String {
         ),
         RateNote::QuickEstimates => "the area-product and rule-of-thumb figures are quick estimates; the capacity comes from full plans with losses and heating".to_string(),
     }
+}
+
+/// The most a kept output gives at the design flux, in words.
+pub fn kept_limit(k: &KeptLimit) -> String {
+    format!(
+        "at {:.2} T the kept winding \"{}\" gives at most {:.1} V at full load (target {:.1} V){}",
+        k.flux_t,
+        k.winding,
+        k.volts,
+        k.target_volts,
+        if k.volts + 1e-9 < k.target_volts {
+            ": to reach the target the core must run above the design flux"
+        } else {
+            ""
+        }
+    )
 }

@@ -61,6 +61,7 @@ struct Drive {
     no_load_amps: Option<f64>,
     flux_vs_donor: Option<f64>,
     kept_output_note: Option<String>,
+    kept_limit: Option<KeptLimit>,
 }
 
 #[derive(Deserialize)]
@@ -108,6 +109,7 @@ struct Winding {
     copper_mass_g: f64,
     volts_no_load: f64,
     volts_full_load: f64,
+    regulation_pct: Option<f64>,
     max_volts_full_load: Option<f64>,
     taps: Vec<Tap>,
 }
@@ -130,6 +132,8 @@ struct Losses {
     output_w: f64,
     efficiency: f64,
     regulation_pct: f64,
+    core_waveform_factor: f64,
+    saturated: bool,
 }
 
 #[derive(Deserialize)]
@@ -199,6 +203,15 @@ enum CheckKind {
     CurrentDensity,
     PrimaryCurrent,
     Output,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct KeptLimit {
+    winding: String,
+    flux_t: f64,
+    volts_full_load: f64,
+    detail: String,
 }
 
 #[derive(Deserialize)]

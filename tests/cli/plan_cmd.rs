@@ -49,11 +49,14 @@ fn emf_textbook_problem_through_the_plan() {
         0.976,
         max_relative = 0.001
     );
-    let ns = j["windings"][1]["turns"].as_u64().expect("turns") as i64;
-    assert!(
-        (ns - 1000).abs() <= 1,
-        "secondary {ns} within a turn of 1000"
-    );
+    // 1300 V over 1000 turns: 1.3 V per turn, the textbook's EMF at no load.
+    let ns = j["windings"][1]["turns"].as_u64().expect("turns") as f64;
+    let v_nl = j["windings"][1]["volts_no_load"].as_f64().expect("V_NL");
+    assert_relative_eq!(v_nl / ns, 1.3, max_relative = 1e-9);
+    // The turns reach 1300 V at full load; the load is a milliampere, but the primary still
+    // carries this heavy core's loss current, whose drop in the primary's resistance every output
+    // sees (DESIGN.md v2): a few turns more than the textbook's no-load 1000, never fewer.
+    assert!((1000.0..=1020.0).contains(&ns), "secondary {ns} turns");
 }
 
 #[test]
@@ -71,9 +74,18 @@ fn one_to_twenty_from_twelve_volts_is_240_at_no_load() {
     );
     let np = j["windings"][0]["turns"].as_f64().expect("np");
     let ns = j["windings"][1]["turns"].as_f64().expect("ns");
-    assert!((ns - 20.0 * np).abs() <= 1.0, "ratio {ns}/{np}");
+    // The EMF ratio is the turns ratio: 12 V over np turns, so ns turns read ns·12/np with no load.
     let vnl = j["windings"][1]["volts_no_load"].as_f64().expect("vnl");
-    assert_relative_eq!(vnl, 240.0, max_relative = 1.0 / (20.0 * np));
+    assert_relative_eq!(vnl, ns * 12.0 / np, max_relative = 1e-9);
+    // About 1:20. The output is a tenth of a milliampere, but the 12 V primary still carries the
+    // core-loss current of this core (over an ampere), whose drop in the primary every output sees
+    // (DESIGN.md v2, the whole primary current): a few per cent more turns, never fewer.
+    assert!(
+        ns >= 20.0 * np - 1.0 && ns <= 20.0 * np * 1.04,
+        "ratio {ns}/{np}"
+    );
+    let fl = j["windings"][1]["volts_full_load"].as_f64().expect("fl");
+    assert!(fl >= 240.0 - 1e-9 && fl < 240.0 * 1.01, "{fl}");
 }
 
 #[test]
