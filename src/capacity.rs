@@ -649,6 +649,13 @@ mod tests {
         ]
     }
 
+    /// The charger with a current density limit of 6 A/mm²: thin wires fit, heating binds.
+    fn heating_limited() -> Job {
+        let mut job = example(include_str!("../examples/garage_charger.toml"));
+        job.current_density_a_mm2 = 6.0;
+        job
+    }
+
     #[test]
     fn the_current_density_limit_is_honoured() {
         // Issue: a rating reached at 3.76 A/mm² on a job limited to 3.0. At any limit, the wires

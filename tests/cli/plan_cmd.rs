@@ -85,7 +85,7 @@ fn one_to_twenty_from_twelve_volts_is_240_at_no_load() {
         "ratio {ns}/{np}"
     );
     let fl = j["windings"][1]["volts_full_load"].as_f64().expect("fl");
-    assert!(fl >= 240.0 - 1e-9 && fl < 240.0 * 1.01, "{fl}");
+    assert!((240.0 - 1e-9..240.0 * 1.01).contains(&fl), "{fl}");
 }
 
 #[test]
