@@ -330,6 +330,11 @@ fn capacity_from(
     }
 }
 
+/// Whether some wire choice of the search carries `va` (one trial, as the search and scan make).
+pub fn carries(job: &Job, va: f64) -> bool {
+    Rater::new(job).trial(va).ok
+}
+
 /// Finds the capacity by bracketing and bisection.
 pub fn capacity(job: &Job) -> Capacity {
     let mut r = Rater::new(job);

@@ -113,6 +113,7 @@ struct RawWinding {
     rated_volts: Option<f64>,
     resistance_ohm: Option<f64>,
     build_mm: Option<LengthInput>,
+    current_density_a_mm2: Option<f64>,
 }
 
 /// The role of a winding.
@@ -587,6 +588,10 @@ fn winding_table(
             (Role::Primary, None) => 0.0,
         };
     let wire = wire_request(c, rw, grade, &key)?;
+    let density = match rw.current_density_a_mm2 {
+        Some(d) => Some(c.range(&key("current_density_a_mm2"), d, 0.1, true, 20.0, "A/mm²")?),
+        None => None,
+    };
     let taps_volts = taps(c, rw, role, volts, &key)?;
     let kept = rw.kept.unwrap_or(false);
     let rated = match rw.rated_volts {
@@ -610,7 +615,7 @@ fn winding_table(
         volts,
         amps,
         wire,
-        current_density_a_mm2: None,
+        current_density_a_mm2: density,
         taps_volts,
         kept,
         rated_volts: rated,

@@ -800,7 +800,7 @@ fn winding_figures(c: &Ctx, st: &State, r: &Round) -> (Vec<WindingPlan>, f64, f6
             copper_loss_w: cu,
             volts_no_load: v_nl,
             volts_full_load: v_fl,
-            regulation_pct: (i != p_idx).then(|| regulation_pct(v_nl, v_fl)),
+            regulation_pct: (i != p_idx && v_fl > 0.0).then(|| regulation_pct(v_nl, v_fl)),
             max_volts_full_load: if i == p_idx { None } else { r.max_fl[i] },
             taps,
         });

@@ -3,7 +3,7 @@
 //! Jobs are generated as TOML text and go through the same parser as a person's file, so the
 //! properties also hold for the parse path.
 
-use ironwind::capacity::capacity;
+use ironwind::capacity::{capacity, carries, job_at_capacity};
 use ironwind::job::{parse_job, Job};
 use ironwind::losses::rise_c;
 use ironwind::plan::plan;
@@ -138,7 +138,10 @@ fn check_finite(v: &serde_json::Value, path: &str) {
         "no_load_amps",
         "flux_vs_donor",
         "kept_output_note",
+        "kept_limit",
         "max_volts_full_load",
+        // The primary's, and an output's that delivers nothing at full load (its check fails).
+        "regulation_pct",
     ];
     match v {
         serde_json::Value::Null => {
@@ -277,5 +280,25 @@ proptest! {
         // strands in hand laid side by side, one strand more or less can change a whole layer, and the
         // step is larger: the layout model's limit, noted in DEVELOPERS.md.)
         prop_assert!(b >= a / 1.12, "stack ×{k}: {a} VA → {b} VA");
+    }
+}
+
+proptest! {
+    #![proptest_config(config(24))]
+
+    #[test]
+    fn the_rated_va_plans_and_two_per_cent_more_does_not(g in gen()) {
+        // Issue (rate = plan): planning a job at its rated VA, with the wires the rating found (each
+        // winding's current density, never above the job's limit), passes every check; at 2 % more
+        // no wire choice of the search carries it.
+        let j = job(&toml_of(&g));
+        let c = capacity(&j);
+        prop_assume!(c.max_va > 0.0);
+        let p = plan(&job_at_capacity(&j, &c));
+        prop_assert!(p.verdict.ok, "at {} VA: {:?}", c.max_va, p.verdict.failed());
+        for w in &c.wires {
+            prop_assert!(w.density_chosen_a_mm2 <= j.current_density_a_mm2 * (1.0 + 1e-9));
+        }
+        prop_assert!(!carries(&j, c.max_va * 1.02), "{} VA carried 2 % above capacity", c.max_va);
     }
 }
