@@ -517,6 +517,11 @@ pub enum Change {
     },
     /// A fan: taken as twice the heat shed (common practice).
     ForcedAir,
+    /// A higher current density limit: thinner wire in the same window, more copper loss.
+    HigherDensity {
+        /// The limit, A/mm².
+        limit_a_mm2: f64,
+    },
 }
 
 /// A change that would let the core carry more, with the capacity it gives.
@@ -530,6 +535,69 @@ pub struct Improvement {
 
 /// Computes what each common change would give.
 pub fn options(job: &Job, current: &Capacity) -> Vec<Improvement> {
+    let mut out = Vec::new();
+    // A donor winding left on the core fixes the core (no laminations added to a welded or varnished
+    // stack) and the volts per turn (its turns set the flux): only the new windings can change.
+    let kept = job.windings.iter().any(|w| w.kept);
+    if !kept {
+        out.extend(core_options(job, current));
+    }
+    // Strip conductor on the heaviest winding, one turn per layer across the traverse.
+    let heavy = current
+        .wires
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| job.windings.get(*i).is_some_and(|w| !w.kept))
+        .max_by(|a, b| a.1.amps.total_cmp(&b.1.amps))
+        .map(|(i, _)| i);
+    // Foil suits a winding of few turns (common practice): one turn to a layer across the traverse.
+    let heavy = heavy.filter(|&i| current.wires.get(i).is_some_and(|w| w.turns <= 40));
+    if let Some(i) = heavy {
+        let mut j = job.clone();
+        let traverse =
+            j.core.window_height_mm - 2.0 * j.layout.bobbin_wall_mm - 2.0 * j.layout.margin_mm;
+        let width = (traverse / j.layout.pitch - crate::wire::STRIP_INSULATION_MM).floor();
+        if width > 1.0 && i < j.windings.len() {
+            let w = &mut j.windings[i];
+            w.wire.size = None;
+            w.wire.strands = None;
+            w.wire.strip_mm = Some((width, 0.2));
+            let name = w.name.clone();
+            out.push(Improvement {
+                change: Change::Strip {
+                    winding: name,
+                    width_mm: width,
+                    thickness_mm: 0.2,
+                },
+                max_va: capacity(&j).max_va,
+            });
+        }
+    }
+    // A window that binds: thinner wire (a higher current density limit), if the heat allows.
+    if current.limit == Limit::Window && job.current_density_a_mm2 * 1.25 <= 20.0 {
+        let mut j = job.clone();
+        j.current_density_a_mm2 *= 1.25;
+        out.push(Improvement {
+            change: Change::HigherDensity {
+                limit_a_mm2: j.current_density_a_mm2,
+            },
+            max_va: capacity(&j).max_va,
+        });
+    }
+    // Forced air.
+    let mut j = job.clone();
+    j.cooling_factor = 2.0;
+    out.push(Improvement {
+        change: Change::ForcedAir,
+        max_va: capacity(&j).max_va,
+    });
+    // Only what would let it carry more.
+    out.retain(|o| o.max_va > current.max_va * (1.0 + 1e-3));
+    out
+}
+
+/// Changes to the core and its flux: a deeper stack, a lower flux (more turns).
+fn core_options(job: &Job, current: &Capacity) -> Vec<Improvement> {
     let mut out = Vec::new();
     // More stack.
     let mut j = job.clone();
@@ -560,43 +628,6 @@ pub fn options(job: &Job, current: &Capacity) -> Vec<Improvement> {
             max_va: v,
         });
     }
-    // Strip conductor on the heaviest winding, one turn per layer across the traverse.
-    let heavy = current
-        .wires
-        .iter()
-        .enumerate()
-        .max_by(|a, b| a.1.amps.total_cmp(&b.1.amps))
-        .map(|(i, _)| i);
-    // Foil suits a winding of few turns (common practice): one turn to a layer across the traverse.
-    let heavy = heavy.filter(|&i| current.wires.get(i).is_some_and(|w| w.turns <= 40));
-    if let Some(i) = heavy {
-        let mut j = job.clone();
-        let traverse =
-            j.core.window_height_mm - 2.0 * j.layout.bobbin_wall_mm - 2.0 * j.layout.margin_mm;
-        let width = (traverse / j.layout.pitch - crate::wire::STRIP_INSULATION_MM).floor();
-        if width > 1.0 && i < j.windings.len() {
-            let w = &mut j.windings[i];
-            w.wire.size = None;
-            w.wire.strands = None;
-            w.wire.strip_mm = Some((width, 0.2));
-            let name = w.name.clone();
-            out.push(Improvement {
-                change: Change::Strip {
-                    winding: name,
-                    width_mm: width,
-                    thickness_mm: 0.2,
-                },
-                max_va: capacity(&j).max_va,
-            });
-        }
-    }
-    // Forced air.
-    let mut j = job.clone();
-    j.cooling_factor = 2.0;
-    out.push(Improvement {
-        change: Change::ForcedAir,
-        max_va: capacity(&j).max_va,
-    });
     out
 }
 

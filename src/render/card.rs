@@ -239,6 +239,18 @@ fn power_up_lines() -> Vec<&'static str> {
 }
 
 fn verdict_line(p: &Plan) -> String {
+    if p.losses.saturated {
+        let failed = p.verdict.failed();
+        return format!(
+            "VERDICT: {} - the core runs at {} T, past saturation: no loss or efficiency figure means anything there",
+            if p.verdict.ok { "checks pass" } else { "DOES NOT PASS" },
+            num(p.drive.flux_density_t, 2)
+        ) + &if failed.is_empty() {
+            String::new()
+        } else {
+            format!(" ({})", failed.join(", "))
+        };
+    }
     if p.verdict.ok {
         format!(
             "VERDICT: every check passes (rise {} C, fill {}, efficiency {} %)",

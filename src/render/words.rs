@@ -180,6 +180,9 @@ pub fn change(c: &Change) -> String {
         Change::ForcedAir => {
             "forced air (a fan; taken as twice the heat shed, common practice)".to_string()
         }
+        Change::HigherDensity { limit_a_mm2 } => format!(
+            "current density up to {limit_a_mm2:.2} A/mm² (thinner wire; the coil runs hotter)"
+        ),
     }
 }
 

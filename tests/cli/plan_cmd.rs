@@ -247,3 +247,39 @@ fn lengths_in_inches_plan_like_millimetres() {
     );
     assert_eq!(mm["windings"], inch["windings"]);
 }
+
+#[test]
+fn past_saturation_the_plan_gives_no_loss_figures() {
+    // Silicon steel saturates near 2.0 T (REFERENCES.md, common practice): at 2.05 T the loss model
+    // has nothing to say, and the plan and card say so instead of printing an efficiency.
+    let d = scratch("saturated");
+    let text = edited(
+        GOOD_JOB,
+        "[supply]",
+        "[limits]\nflux_density_t = 2.05\n[supply]",
+    );
+    let p = write(&d, "sat.toml", &text);
+    let j = run(&["plan", &p, "--format", "json"]).ok().json();
+    assert_eq!(j["losses"]["saturated"], true);
+    assert!(j["warnings"].to_string().contains("past saturation"));
+    let t = run(&["plan", &p]).ok().stdout;
+    assert!(
+        t.contains("not estimated: the core is past saturation"),
+        "{t}"
+    );
+    let card = run(&["card", &p]).ok().stdout;
+    // The verdict says why, with no "efficiency 88 %" figure.
+    let verdict = card
+        .lines()
+        .find(|l| l.starts_with("VERDICT"))
+        .expect("verdict line");
+    assert!(
+        verdict.contains("past saturation") && !verdict.contains('%'),
+        "{verdict}"
+    );
+    // Below 1.9 T: figures as usual.
+    let j = run(&["plan", "examples/garage_charger.toml", "--format", "json"])
+        .ok()
+        .json();
+    assert_eq!(j["losses"]["saturated"], false);
+}
