@@ -711,7 +711,7 @@ fn settle(c: &Ctx, st: &mut State) -> Round {
         let repeat = seen.contains(&key);
         st.primary_amps = i_p;
         if settled || final_pass {
-            return round;
+            return settle_current(c, st, round);
         }
         let mut turns = next.turns;
         if repeat || iterations >= 60 {
@@ -733,6 +733,22 @@ fn settle(c: &Ctx, st: &mut State) -> Round {
         st.turns = turns;
         st.n_p = next.n_p;
     }
+}
+
+/// The primary current made consistent with the settled turns and wires: the power balance solved
+/// again until it no longer moves (a final pass after a cycle starts from the cycle's largest current,
+/// chosen for the wires).
+fn settle_current(c: &Ctx, st: &mut State, mut round: Round) -> Round {
+    for _ in 0..50 {
+        let (i_p, ok) = primary_current(c, st, &round.r_hot, round.core_w);
+        round.primary_ok = ok;
+        let moved = (i_p - st.primary_amps).abs();
+        st.primary_amps = i_p;
+        if moved <= 1e-12 * i_p.max(1e-12) {
+            break;
+        }
+    }
+    round
 }
 
 /// Every winding's figures from the settled state; with the output power and the copper loss.
@@ -1124,4 +1140,75 @@ pub fn check_windable(plan: &Plan, origin: &str) -> Result<()> {
         }
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    /// Arithmetic of the model's equations holds to rounding.
+    const SOLVED: f64 = 1e-6;
+
+    fn job(text: &str) -> Job {
+        crate::job::parse_job(text, "t", &|_| Err(Error::Failed("no sweep".into()))).expect("job")
+    }
+
+    #[test]
+    fn two_outputs_solved_by_hand() {
+        // Two 25 V outputs of 3 A on one core. By hand, with the plan's own resistances (hot) and
+        // core loss: each output's full-load volts are (N_s/N_p)(V_p − I_p·R_p) − I_s·R_s, with the
+        // WHOLE primary current I_p, which satisfies V_p·I_p = Σ V_s·I_s + Σ I_s²·R_s + P_core +
+        // I_p²·R_p. Each output has the fewest turns that reach 25 V: one turn fewer (same wire,
+        // resistance in proportion, its reflected current one turn less) falls short.
+        let p = plan(&job(
+            "[core]\ntongue_mm = 35\nstack_mm = 45\nwindow_width_mm = 17.5\nwindow_height_mm = 52.5\n[supply]\nfrequency_hz = 50\n[[winding]]\nname = \"mains\"\nrole = \"primary\"\nvolts = 230\n[[winding]]\nname = \"a\"\nrole = \"secondary\"\nvolts = 25\namps = 3\n[[winding]]\nname = \"b\"\nrole = \"secondary\"\nvolts = 25\namps = 3\n",
+        ));
+        let (vp, ip) = (230.0, p.drive.primary_amps);
+        let np = p.windings[0].turns as f64;
+        let rp = p.windings[0].resistance_ohm;
+        let mut balance = p.losses.core_w + ip * ip * rp;
+        for w in &p.windings[1..] {
+            let ns = w.turns as f64;
+            let fl = ns / np * (vp - ip * rp) - w.amps * w.resistance_ohm;
+            assert_relative_eq!(w.volts_full_load, fl, max_relative = SOLVED);
+            assert!(fl >= 25.0, "{}: {fl}", w.name);
+            let r_less = w.resistance_ohm * (ns - 1.0) / ns;
+            let ip_less = ip - w.amps / np;
+            let fl_less = (ns - 1.0) / np * (vp - ip_less * rp) - w.amps * r_less;
+            assert!(
+                fl_less < 25.0,
+                "{}: one turn fewer still gives {fl_less}",
+                w.name
+            );
+            balance += fl * w.amps + w.amps * w.amps * w.resistance_ohm;
+            // McLyman's regulation of this output.
+            let reg = (w.volts_no_load - fl) / fl * 100.0;
+            assert_relative_eq!(w.regulation_pct.expect("reg"), reg, max_relative = SOLVED);
+        }
+        assert_relative_eq!(vp * ip, balance, max_relative = SOLVED);
+        // The two outputs see the same primary drop: the outer one, with its longer mean turn,
+        // has at least the inner one's turns.
+        assert!(p.windings[2].turns >= p.windings[1].turns);
+    }
+
+    #[test]
+    fn square_drive_core_loss_is_the_sine_figure_times_the_loss_separation_factor() {
+        // The same core and peak flux under sine and under a full square drive: the square's core
+        // loss is the sine's × 0.945 (magnetics::Waveform::loss_factor, checked there against a
+        // numerical integration of the flux waveform).
+        let sine = "[core]\ntongue_mm = 35\nstack_mm = 45\nwindow_width_mm = 17.5\nwindow_height_mm = 52.5\n[supply]\nfrequency_hz = 50\n[limits]\nflux_density_t = 1.2\n[[winding]]\nname = \"p\"\nrole = \"primary\"\nvolts = 230\n[[winding]]\nname = \"s\"\nrole = \"secondary\"\nvolts = 25\namps = 2\n";
+        let square = sine.replace(
+            "frequency_hz = 50",
+            "frequency_hz = 50\nwaveform = \"square\"",
+        );
+        let (a, b) = (plan(&job(sine)), plan(&job(&square)));
+        let per_t2 = |p: &Plan| p.losses.core_w / p.drive.flux_density_t.powi(2);
+        let k = Waveform::Square.loss_factor(crate::magnetics::DEFAULT_SHARES);
+        assert_relative_eq!(per_t2(&b) / per_t2(&a), k, max_relative = SOLVED);
+        assert!(b
+            .warnings
+            .iter()
+            .any(|w| matches!(w, Warning::SquareDrive { .. })));
+    }
 }
