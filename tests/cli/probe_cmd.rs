@@ -339,3 +339,52 @@ amps = 0.001
     // 12 V at 0.45 V/turn: 26.7 → 27 turns at almost no load (1 mA through the thinnest wire).
     assert_eq!(ns, 27.0);
 }
+
+#[test]
+fn a_kept_windings_wire_is_not_invented() {
+    // Issue (kept windings): the donor's own winding keeps its copper. With its resistance measured
+    // the copper area is ρ·N·MLT/R20 (IEC 60028 copper), its conductor is "kept", and the current
+    // density check leaves it out; a kept output says the most it gives at the design flux.
+    let j = run(&[
+        "plan",
+        "examples/ups_donor_inverter.toml",
+        "--format",
+        "json",
+    ])
+    .ok()
+    .json();
+    let kept = &j["windings"][0];
+    assert_eq!(kept["kept"], true);
+    assert_eq!(kept["conductor"]["system"], "kept");
+    let (n, mlt_m) = (
+        kept["turns"].as_f64().expect("turns"),
+        kept["mean_turn_mm"].as_f64().expect("mlt") / 1000.0,
+    );
+    let area = kept["conductor"]["area_mm2"].as_f64().expect("area");
+    // Measured 9.5 Ω at 20 °C (the example's resistance_ohm).
+    assert_relative_eq!(area, n * mlt_m / 58.0 / 9.5, max_relative = 1e-9);
+    let cd = j["verdict"]["checks"]
+        .as_array()
+        .expect("checks")
+        .iter()
+        .find(|c| c["kind"] == "current-density")
+        .expect("current density check");
+    assert!(
+        !cd["detail"].as_str().expect("detail").contains("mains"),
+        "{cd}"
+    );
+    let limit = &j["drive"]["kept_limit"];
+    assert_eq!(limit["winding"], "mains");
+    assert!(limit["volts_full_load"].as_f64().expect("volts") > 0.0);
+    assert!(limit["detail"]
+        .as_str()
+        .expect("detail")
+        .contains("gives at most"));
+    let card = run(&["card", "examples/ups_donor_inverter.toml"])
+        .ok()
+        .stdout;
+    assert!(
+        card.contains("the donor's own (measured 9.50 ohm"),
+        "{card}"
+    );
+}
