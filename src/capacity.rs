@@ -150,7 +150,8 @@ impl Rater {
                 }
             }
         }
-        let heat_ok = best.thermal.rise_c <= best.thermal.max_rise_c * (1.0 + 1e-9);
+        let heat_ok = best.thermal.rise_c <= best.thermal.max_rise_c * (1.0 + 1e-9)
+            && best.verdict.passes(CheckKind::InsulationClass);
         let out_ok = outputs_ok(&best);
         let dens_ok = best.verdict.passes(CheckKind::CurrentDensity);
         let ok = heat_ok && out_ok && dens_ok && flux_ok(&best);

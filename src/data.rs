@@ -7,6 +7,9 @@
 //! - `wire_metric.csv`: ISO 3 R20 nominal diameters 0.100–4.00 mm; IEC 60317-0-1 grade 1 and
 //!   grade 2 maximum overall diameters from IS 13730-0-1 (its Indian adoption) where listed,
 //!   interpolated on the enamel increase otherwise.
+//! - `wire_swg.csv`: British Standard Wire Gauge 4–40 (BS 3737:1964, withdrawn; the 1883 Board of
+//!   Trade gauge), diameters in inches as tabulated; overall diameters of IEC 60317-0-1 grades from
+//!   IS 13730-0-1 where it lists the size, interpolated on the enamel increase otherwise.
 //! - `steel.csv`: the generic steel kinds with a design flux density and a loss estimate.
 //!
 //! Each row keeps its source. A unit test checks every table is sorted, unique and positive, so a
@@ -19,10 +22,12 @@ use std::sync::OnceLock;
 pub const WIRE_AWG_CSV: &str = include_str!("../data/wire_awg.csv");
 /// The text of `data/wire_metric.csv`.
 pub const WIRE_METRIC_CSV: &str = include_str!("../data/wire_metric.csv");
+/// The text of `data/wire_swg.csv`.
+pub const WIRE_SWG_CSV: &str = include_str!("../data/wire_swg.csv");
 /// The text of `data/steel.csv`.
 pub const STEEL_CSV: &str = include_str!("../data/steel.csv");
 /// Version label of the embedded data tables (bump when a table changes).
-pub const DATA_VERSION: &str = "wire_awg 1, wire_metric 1, steel 1";
+pub const DATA_VERSION: &str = "wire_awg 1, wire_metric 1, wire_swg 1, steel 2";
 
 /// One AWG row.
 #[derive(Debug, Clone, Deserialize)]
@@ -44,6 +49,23 @@ pub struct AwgRow {
 pub struct MetricRow {
     /// Nominal conductor diameter, mm (ISO 3 R20).
     pub nominal_mm: f64,
+    /// Maximum overall diameter, grade 1, mm.
+    pub grade1_max_mm: f64,
+    /// Maximum overall diameter, grade 2, mm.
+    pub grade2_max_mm: f64,
+    /// Where the row's numbers come from.
+    pub source: String,
+}
+
+/// One SWG row.
+#[derive(Debug, Clone, Deserialize)]
+pub struct SwgRow {
+    /// The gauge number.
+    pub gauge: u32,
+    /// Diameter in inches as BS 3737 tabulates it.
+    pub inch: f64,
+    /// Bare diameter, mm.
+    pub bare_mm: f64,
     /// Maximum overall diameter, grade 1, mm.
     pub grade1_max_mm: f64,
     /// Maximum overall diameter, grade 2, mm.
@@ -101,6 +123,12 @@ pub fn metric() -> &'static [MetricRow] {
     parsed(&CELL, WIRE_METRIC_CSV)
 }
 
+/// The SWG table, thickest first (gauge 4 to 40).
+pub fn swg() -> &'static [SwgRow] {
+    static CELL: OnceLock<Vec<SwgRow>> = OnceLock::new();
+    parsed(&CELL, WIRE_SWG_CSV)
+}
+
 /// The steel table.
 pub fn steel() -> &'static [SteelRow] {
     static CELL: OnceLock<Vec<SteelRow>> = OnceLock::new();
@@ -119,6 +147,59 @@ mod tests {
             33
         );
         assert_eq!(parse::<SteelRow>(STEEL_CSV).expect("steel").len(), 3);
+        assert_eq!(parse::<SwgRow>(WIRE_SWG_CSV).expect("swg").len(), 37);
+    }
+
+    #[test]
+    fn swg_against_bs_3737() {
+        // BS 3737:1964 (REFERENCES.md, as tabulated in public reference tables), inches / mm.
+        for (gauge, inch, mm) in [
+            (10, 0.128, 3.251),
+            (12, 0.104, 2.642),
+            (14, 0.080, 2.032),
+            (16, 0.064, 1.626),
+            (18, 0.048, 1.219),
+            (20, 0.036, 0.914),
+            (22, 0.028, 0.711),
+            (24, 0.022, 0.559),
+            (26, 0.018, 0.457),
+            (28, 0.0148, 0.376),
+            (30, 0.0124, 0.315),
+            (32, 0.0108, 0.274),
+            (34, 0.0092, 0.234),
+            (36, 0.0076, 0.193),
+            (38, 0.0060, 0.152),
+            (40, 0.0048, 0.122),
+        ] {
+            let r = swg().iter().find(|r| r.gauge == gauge).expect("gauge");
+            assert!((r.inch - inch).abs() < 1e-9, "SWG {gauge}");
+            // The table's mm are the inches × 25.4 to the micrometre.
+            assert!(
+                (r.bare_mm - mm).abs() <= 0.0006,
+                "SWG {gauge}: {}",
+                r.bare_mm
+            );
+            assert!((r.bare_mm - inch * 25.4).abs() <= 0.0006, "SWG {gauge}");
+        }
+        // IS 13730-0-1 overall diameters on SWG sizes [S]: 0.315 → 0.349 / 0.367, 1.626 → 1.698 /
+        // 1.735.
+        let r30 = swg().iter().find(|r| r.gauge == 30).expect("30");
+        assert_eq!((r30.grade1_max_mm, r30.grade2_max_mm), (0.349, 0.367));
+        let r16 = swg().iter().find(|r| r.gauge == 16).expect("16");
+        assert_eq!((r16.grade1_max_mm, r16.grade2_max_mm), (1.698, 1.735));
+    }
+
+    #[test]
+    fn swg_sorted_unique_positive_and_enamel_grows() {
+        let rows = swg();
+        for pair in rows.windows(2) {
+            assert!(pair[1].gauge == pair[0].gauge + 1, "gauges consecutive");
+            assert!(pair[1].bare_mm < pair[0].bare_mm, "thinner with gauge");
+        }
+        for r in rows {
+            assert!(r.grade1_max_mm > r.bare_mm && r.grade2_max_mm > r.grade1_max_mm);
+            assert!(!r.source.is_empty());
+        }
     }
 
     #[test]

@@ -7,6 +7,9 @@
 //! - layers = ceil(N / turns per layer); build = layers·d + (layers − 1)·interlayer;
 //! - total build = wall + Σ builds + between-windings gaps + outer wrap; it fits when
 //!   total ≤ w − clearance (`ui`: each leg has w/2 of the window);
+//! - a split bobbin (DESIGN.md v2): the traverse less the divider is shared, section 1 taking
+//!   `split_at` of it and section 2 the rest; each section's windings are layered from the tube out
+//!   on their own share, with their own mean turns, and each section's build must fit;
 //! - mean turn MLT = 2(a + s) + 8·wall + 2π·x, x from the tube's outer face to the middle of the
 //!   winding's build (a rectangular tube with rounded corners of radius x);
 //! - copper fill = Σ N·n·area / Aw.
@@ -33,6 +36,17 @@ pub struct LayoutSettings {
     pub outer_mm: f64,
     /// Clearance left between the coil and the outer leg, mm.
     pub clearance_mm: f64,
+    /// A split bobbin: two sections side by side along the traverse.
+    pub split: Option<Split>,
+}
+
+/// A split bobbin: the traverse less a divider, shared between two sections side by side.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Split {
+    /// The divider's thickness, mm.
+    pub divider_mm: f64,
+    /// Section 1's fraction of the traverse (after the divider).
+    pub split_at: f64,
 }
 
 impl Default for LayoutSettings {
@@ -45,6 +59,7 @@ impl Default for LayoutSettings {
             between_windings_mm: 0.25,
             outer_mm: 0.2,
             clearance_mm: 1.0,
+            split: None,
         }
     }
 }
@@ -66,6 +81,8 @@ pub struct CoilInput {
     pub measured_build_mm: Option<f64>,
     /// Strands stacked in the build direction (foils of strip) rather than side by side.
     pub stacked: bool,
+    /// Its section of a split bobbin (1 or 2; 1 on a single bobbin).
+    pub section: u32,
 }
 
 /// One winding's place on the bobbin.
@@ -85,6 +102,12 @@ pub struct CoilLayout {
     pub layer_mm: f64,
     /// Insulation between its layers, mm.
     pub interlayer_mm: f64,
+    /// Its section of a split bobbin (1 on a single bobbin).
+    pub section: u32,
+    /// The traverse it winds on (its section's share on a split bobbin), mm.
+    pub traverse_mm: f64,
+    /// Where that traverse starts, from the first flange's inner face (after the margin), mm.
+    pub offset_mm: f64,
     /// Distance from the tube's outer face to the middle of the winding, mm.
     pub mid_mm: f64,
     /// Mean length of turn, mm.
@@ -144,49 +167,87 @@ pub fn coil_turns(shape: Shape, turns: u32) -> u32 {
     }
 }
 
-/// Lays out the windings on the core.
+/// A section's share of the traverse: (its length, where it starts from the first flange), mm.
+/// A single bobbin has one section, the whole traverse.
+pub fn section_traverse(traverse: f64, split: Option<Split>, section: u32) -> (f64, f64) {
+    match split {
+        None => (traverse, 0.0),
+        Some(sp) => {
+            let shared = (traverse - sp.divider_mm).max(0.0);
+            let first = shared * sp.split_at;
+            if section == 2 {
+                (shared - first, first + sp.divider_mm)
+            } else {
+                (first, 0.0)
+            }
+        }
+    }
+}
+
+/// Turns per layer, layers and build of one coil on a traverse of `traverse` mm.
+fn stack_layers(w: &CoilInput, n: u32, traverse: f64, s: &LayoutSettings) -> (u32, u32, f64, f64) {
+    // Round strands lie side by side along the traverse; strip foils in hand lie on each other.
+    let (per_turn, layer_build) = if w.stacked {
+        (w.traverse_mm * s.pitch, w.strands as f64 * w.build_mm)
+    } else {
+        (w.strands as f64 * w.traverse_mm * s.pitch, w.build_mm)
+    };
+    let tpl_real = if per_turn > 0.0 {
+        traverse / per_turn
+    } else {
+        0.0
+    };
+    let tpl = if tpl_real.is_finite() && tpl_real >= 1.0 {
+        tpl_real.floor().min(1e6) as u32
+    } else {
+        0
+    };
+    let (layers, build) = if tpl == 0 {
+        let layers = n.max(1);
+        (layers, layers as f64 * layer_build)
+    } else {
+        let layers = n.div_ceil(tpl).max(1);
+        (
+            layers,
+            layers as f64 * layer_build + (layers - 1) as f64 * s.interlayer_mm,
+        )
+    };
+    (
+        tpl,
+        layers,
+        w.measured_build_mm.unwrap_or(build),
+        layer_build,
+    )
+}
+
+/// Lays out the windings on the core: each section of a split bobbin is layered on its own, from
+/// the tube out, on its share of the traverse.
 pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> Layout {
     let traverse = core.window_height_mm - 2.0 * s.bobbin_wall_mm - 2.0 * s.margin_mm;
     let mut coils = Vec::with_capacity(windings.len());
-    let mut position = 0.0; // from the tube's outer face
+    // From the tube's outer face, per bobbin section; whether a section has a winding yet.
+    let mut position = [0.0f64; 2];
+    let mut used = [false; 2];
     let mut all_fit_layer = true;
     let mut copper = 0.0;
-    for (k, w) in windings.iter().enumerate() {
-        if k > 0 {
-            position += s.between_windings_mm;
+    for w in windings {
+        let sec = if s.split.is_some() && w.section == 2 {
+            2
+        } else {
+            1
+        };
+        let slot = (sec - 1) as usize;
+        if used[slot] {
+            position[slot] += s.between_windings_mm;
         }
+        used[slot] = true;
+        let (tl, offset) = section_traverse(traverse, s.split, sec);
         let n = coil_turns(core.shape, w.turns);
-        // Round strands lie side by side along the traverse; strip foils in hand lie on each other.
-        let (per_turn, layer_build) = if w.stacked {
-            (w.traverse_mm * s.pitch, w.strands as f64 * w.build_mm)
-        } else {
-            (w.strands as f64 * w.traverse_mm * s.pitch, w.build_mm)
-        };
-        let tpl_real = if per_turn > 0.0 {
-            traverse / per_turn
-        } else {
-            0.0
-        };
-        let tpl = if tpl_real.is_finite() && tpl_real >= 1.0 {
-            tpl_real.floor().min(1e6) as u32
-        } else {
-            0
-        };
-        let (layers, build) = if tpl == 0 {
-            all_fit_layer = false;
-            let layers = n.max(1);
-            (layers, layers as f64 * layer_build)
-        } else {
-            let layers = n.div_ceil(tpl).max(1);
-            (
-                layers,
-                layers as f64 * layer_build + (layers - 1) as f64 * s.interlayer_mm,
-            )
-        };
-        let build = w.measured_build_mm.unwrap_or(build);
-        let start = position;
-        let mid = position + build / 2.0;
-        position += build;
+        let (tpl, layers, build, layer_build) = stack_layers(w, n, tl, s);
+        all_fit_layer &= tpl > 0;
+        let start = position[slot];
+        let mid = start + build / 2.0;
+        position[slot] += build;
         let mlt = 2.0 * (core.tongue_mm + core.stack_mm) + 8.0 * s.bobbin_wall_mm + 2.0 * PI * mid;
         copper += w.turns as f64 * w.strands as f64 * w.area_mm2;
         coils.push(CoilLayout {
@@ -197,22 +258,27 @@ pub fn layout(core: &CoreDims, s: &LayoutSettings, windings: &[CoilInput]) -> La
             start_mm: start,
             layer_mm: layer_build,
             interlayer_mm: s.interlayer_mm,
+            section: sec,
+            traverse_mm: tl,
+            offset_mm: offset,
             mid_mm: mid,
             mean_turn_mm: mlt,
             checkpoints: Vec::new(),
         });
     }
-    let total = s.bobbin_wall_mm + position + s.outer_mm;
+    let total = s.bobbin_wall_mm + position[0].max(position[1]) + s.outer_mm;
     let available = match core.shape {
         Shape::Ei => core.window_width_mm - s.clearance_mm,
         Shape::Ui => core.window_width_mm / 2.0 - s.clearance_mm,
     };
+    let traverses_ok = (1..=if s.split.is_some() { 2 } else { 1 })
+        .all(|sec| section_traverse(traverse, s.split, sec).0 > 0.0);
     Layout {
         traverse_mm: traverse,
         coils,
         build_mm: total,
         available_mm: available,
-        fits: all_fit_layer && traverse > 0.0 && total <= available + 1e-9,
+        fits: all_fit_layer && traverse > 0.0 && traverses_ok && total <= available + 1e-9,
         copper_fill: copper / (core.window_width_mm * core.window_height_mm),
     }
 }
@@ -235,6 +301,7 @@ mod tests {
             area_mm2: crate::wire::round_area_mm2(d * 0.95),
             measured_build_mm: None,
             stacked: false,
+            section: 1,
         }
     }
 
@@ -283,6 +350,7 @@ mod tests {
             area_mm2: 8.8,
             measured_build_mm: None,
             stacked: true,
+            section: 1,
         };
         let l = layout(&core, &LayoutSettings::default(), &[coil(100, 1.0), strip]);
         let c = &l.coils[1];

@@ -108,13 +108,32 @@ pub struct WindingPlan {
     pub kept: bool,
     /// Whether its resistance was measured (a kept winding with `resistance_ohm`).
     pub resistance_measured: bool,
-    /// Target volts (amplitude for a square-driven primary).
+    /// Target volts (amplitude for a square-driven primary), per half or section.
     pub volts: f64,
-    /// Full-load current, A RMS.
+    /// Whether the job gave the volts (a fixed-turns output may not).
+    pub volts_given: bool,
+    /// Full-load current, A RMS: an output's per half or section; the primary's as one winding at
+    /// its volts (the whole primary current).
     pub amps: f64,
-    /// Turns.
+    /// RMS current in one half or section, A (a push-pull primary's half: I_p/√2).
+    pub section_amps: f64,
+    /// Halves or sections (1, 2 for a centre tap, N for sections).
+    pub sections: u32,
+    /// Centre-tapped (two halves).
+    pub centre_tap: bool,
+    /// Halves or sections wound together.
+    pub bifilar: bool,
+    /// Turns fixed by the job.
+    pub turns_fixed: bool,
+    /// Its section of a split bobbin (1 on a single bobbin).
+    pub bobbin_section: u32,
+    /// Fraction of the time its load is on.
+    pub load_duty: f64,
+    /// The copper's own rise in one on-time, °C (when the job gives `on_time_s`).
+    pub adiabatic_rise_c: Option<f64>,
+    /// Turns, per half or section.
     pub turns: u32,
-    /// Wire.
+    /// Wire of one half or section.
     pub wire: WireChoice,
     /// Enamel grade label (`grade 2`, `heavy build`, `strip`).
     pub grade_label: &'static str,
@@ -195,6 +214,12 @@ pub struct Thermal {
     pub resistance_at_c: f64,
     /// Allowed rise, °C.
     pub max_rise_c: f64,
+    /// The time-averaged copper loss the rise is taken from, W (each load at its duty).
+    pub average_copper_w: f64,
+    /// The hottest copper: the hot winding plus the largest adiabatic rise of one on-time, °C.
+    pub hot_spot_c: f64,
+    /// The insulation class (IEC 60085) and its temperature, °C.
+    pub insulation_class: crate::job::InsulationClass,
 }
 
 /// What the probe told the plan.
@@ -383,6 +408,44 @@ impl<'a> Ctx<'a> {
     fn kept_output(&self) -> Option<usize> {
         self.kept_idx.filter(|&k| k != self.p_idx)
     }
+
+    /// Halves or sections of winding `i`.
+    fn mult(&self, i: usize) -> f64 {
+        self.job.windings[i].sections.max(1) as f64
+    }
+
+    /// The primary's resistance as its current I_p sees it (the current of the equivalent single
+    /// winding at the primary's volts): one half of a push-pull primary (one half conducts at a
+    /// time), or the sections in parallel.
+    fn r_p_eff(&self, r_hot: &[f64]) -> f64 {
+        let p = self.primary();
+        if p.centre_tap {
+            r_hot[self.p_idx]
+        } else {
+            r_hot[self.p_idx] / self.mult(self.p_idx)
+        }
+    }
+
+    /// The RMS current in one half or section of winding `i`: a push-pull primary's half carries
+    /// I_p for half of each cycle, so I_p/√2; a sectioned primary's sections share I_p; an
+    /// output's halves or sections each carry its `amps`.
+    fn section_amps(&self, i: usize, primary_amps: f64) -> f64 {
+        let w = &self.job.windings[i];
+        if i != self.p_idx {
+            return w.amps;
+        }
+        if w.centre_tap {
+            primary_amps / std::f64::consts::SQRT_2
+        } else {
+            primary_amps / self.mult(i)
+        }
+    }
+
+    /// Whether the turns of winding `i` are not the plan's to choose (kept, or fixed by the job).
+    fn turns_fixed(&self, i: usize) -> bool {
+        let w = &self.job.windings[i];
+        w.kept || w.fixed_turns.is_some()
+    }
 }
 
 /// What one round of the fixed-point loop carries to the next.
@@ -400,8 +463,9 @@ struct State {
 fn initial_state(c: &Ctx) -> State {
     let job = c.job;
     let (f, ae, wf) = (job.frequency_hz, c.g.area_net_mm2, job.waveform);
-    let mut n_p = match c.kept_idx {
-        Some(k) if k == c.p_idx => c.kept_turns(k),
+    let mut n_p = match (c.kept_idx, c.primary().fixed_turns) {
+        (Some(k), _) if k == c.p_idx => c.kept_turns(k),
+        (_, Some(n)) => n,
         _ => ceil_turns(wf.turns_exact(c.primary().volts, f, c.design_flux, ae)).min(10_000_000),
     };
     if let Some(k) = c.kept_output() {
@@ -415,7 +479,7 @@ fn initial_state(c: &Ctx) -> State {
         .windings
         .iter()
         .filter(|w| w.role == Role::Secondary)
-        .map(|w| w.volts * w.amps)
+        .map(|w| w.sections.max(1) as f64 * w.volts * w.amps)
         .sum();
     State {
         turns: job
@@ -427,6 +491,8 @@ fn initial_state(c: &Ctx) -> State {
                     n_p
                 } else if w.kept {
                     c.kept_turns(i)
+                } else if let Some(n) = w.fixed_turns {
+                    n
                 } else {
                     ceil_turns(w.volts * n_p as f64 / c.v_p_rms).min(10_000_000)
                 }
@@ -528,8 +594,14 @@ fn lay_out(c: &Ctx, st: &State) -> Layout {
         .zip(&st.wires)
         .zip(&st.turns)
         .map(|((w, wire), &n)| CoilInput {
-            turns: n,
-            strands: wire.strands,
+            // Halves and sections one after another, or side by side in hand when bifilar.
+            turns: if w.bifilar { n } else { n * w.sections.max(1) },
+            strands: if w.bifilar {
+                wire.strands * w.sections.max(1)
+            } else {
+                wire.strands
+            },
+            section: w.bobbin_section,
             traverse_mm: wire.conductor.traverse_mm(),
             build_mm: wire.conductor.build_mm(),
             area_mm2: wire.conductor.area_mm2(),
@@ -571,7 +643,7 @@ pub fn full_load_volts(
 /// The primary current from the power balance I·V = P_out + P_cu,out + P_core + I²·R_p; false when
 /// the primary's resistance cannot pass that power.
 fn primary_current(c: &Ctx, st: &State, r_hot: &[f64], core_w: f64) -> (f64, bool) {
-    let r_p = r_hot[c.p_idx];
+    let r_p = c.r_p_eff(r_hot);
     let mut p_out = 0.0;
     let mut p_cu_out = 0.0;
     for (i, w) in c.job.windings.iter().enumerate() {
@@ -580,8 +652,9 @@ fn primary_current(c: &Ctx, st: &State, r_hot: &[f64], core_w: f64) -> (f64, boo
         }
         let n = st.turns[i] as f64;
         let vfl = full_load_volts(n, st.n_p, c.v_p_rms, st.primary_amps, r_p, w.amps, r_hot[i]);
-        p_out += vfl.max(0.0) * w.amps;
-        p_cu_out += w.amps * w.amps * r_hot[i];
+        // Every half or section of an output carries its amps at its volts.
+        p_out += c.mult(i) * vfl.max(0.0) * w.amps;
+        p_cu_out += c.mult(i) * w.amps * w.amps * r_hot[i];
     }
     let need = p_out + p_cu_out + core_w;
     let v = c.v_p_rms;
@@ -615,7 +688,8 @@ fn next_turns(
         let wk = &job.windings[k];
         let nk = st.turns[k] as f64;
         let num = nk * c.v_p_rms;
-        let den = wk.volts + wk.amps * r_hot[k] + nk * st.primary_amps * per_turn[c.p_idx];
+        let r_p_turn = c.r_p_eff(r_hot) / st.n_p as f64;
+        let den = wk.volts + wk.amps * r_hot[k] + nk * st.primary_amps * r_p_turn;
         new_np = if num > 0.0 {
             ((num / den * (1.0 + 1e-12)).floor().clamp(1.0, 1e7)) as u32
         } else {
@@ -623,15 +697,17 @@ fn next_turns(
         };
         turns[c.p_idx] = new_np;
     }
-    let b = r_hot[c.p_idx] / (st.n_p as f64 * st.n_p as f64);
+    let r_p = c.r_p_eff(r_hot);
     for (i, w) in job.windings.iter().enumerate() {
         if i == c.p_idx {
             continue;
         }
         let a = per_turn[i];
+        // Its own reflected current (every half or section) in the primary: b·N² of drop.
+        let b = c.mult(i) * r_p / (st.n_p as f64 * st.n_p as f64);
         // The primary current less this output's own reflected current: the drop it causes in the
         // primary acts on this output like a lower volts per turn.
-        let v = v_turn - r_hot[c.p_idx] * rest_of_primary(st, i, w.amps) / st.n_p as f64;
+        let v = v_turn - r_p * rest_of_primary(st, i, c.mult(i) * w.amps) / st.n_p as f64;
         let lin = v - w.amps * a;
         let fl = |x: f64| x * v - w.amps * (a * x + b * x * x);
         max_fl[i] = Some(if b > 0.0 && w.amps > 0.0 {
@@ -639,7 +715,7 @@ fn next_turns(
         } else {
             f64::INFINITY
         });
-        if !w.kept {
+        if !c.turns_fixed(i) {
             turns[i] = smallest_turns(w.volts, v, w.amps, a, b).0.min(10_000_000);
         }
     }
@@ -647,7 +723,8 @@ fn next_turns(
 }
 
 /// The primary current less output `i`'s own reflected load current I_s·N_s/N_p (the other outputs'
-/// currents, and the core-loss current, which this output's turns do not change).
+/// currents, and the core-loss current, which this output's turns do not change); `amps` is the
+/// output's whole current (every half or section).
 fn rest_of_primary(st: &State, i: usize, amps: f64) -> f64 {
     st.primary_amps - amps * st.turns[i] as f64 / st.n_p as f64
 }
@@ -753,79 +830,135 @@ fn settle_current(c: &Ctx, st: &mut State, mut round: Round) -> Round {
 
 /// Every winding's figures from the settled state; with the output power and the copper loss.
 fn winding_figures(c: &Ctx, st: &State, r: &Round) -> (Vec<WindingPlan>, f64, f64) {
-    let job = c.job;
-    let p_idx = c.p_idx;
-    let r_p = r.r_hot[p_idx];
-    let b = r_p / (st.n_p as f64 * st.n_p as f64);
-    let mut windings = Vec::with_capacity(job.windings.len());
-    let (mut p_out, mut p_cu) = (0.0, 0.0);
-    for (i, w) in job.windings.iter().enumerate() {
-        let n = st.turns[i];
-        let wire = st.wires[i].clone();
-        let mut coil = r.lay.coils[i].clone();
-        coil.fill_checkpoints();
-        let amps = if i == p_idx { st.primary_amps } else { w.amps };
-        let length_m = n as f64 * coil.mean_turn_mm / 1000.0;
-        let cut = length_m + 2.0 * job.lead_m;
-        let res = r.r_hot[i];
-        let cu = amps * amps * res;
-        p_cu += cu;
-        let (v_nl, v_fl) = if i == p_idx {
-            (c.v_p_rms, c.v_p_rms - amps * res)
-        } else {
-            let nf = n as f64;
-            let fl = full_load_volts(nf, st.n_p, c.v_p_rms, st.primary_amps, r_p, w.amps, res);
-            (nf * r.v_turn, fl)
-        };
-        let v_eff = r.v_turn - r_p * rest_of_primary(st, i, w.amps) / st.n_p as f64;
-        if i != p_idx {
-            p_out += v_fl.max(0.0) * w.amps;
-        }
-        let taps = w
-            .taps_volts
-            .iter()
-            .map(|&tv| Tap {
-                volts: tv,
-                turn: smallest_turns(tv, v_eff, w.amps, res / n as f64, b)
-                    .0
-                    .min(n),
-            })
-            .collect();
-        let grade_label = match &wire.conductor {
-            Conductor::Round(rs) => job.grade.label(rs.system),
-            Conductor::Strip { .. } => "strip, insulated",
-            Conductor::Kept { .. } => "kept",
-        };
-        windings.push(WindingPlan {
-            name: w.name.clone(),
-            role: w.role,
-            kept: w.kept,
-            resistance_measured: w.resistance_ohm.is_some(),
-            volts: w.volts,
-            amps,
-            turns: n,
-            grade_label,
-            current_density_a_mm2: amps / wire.area_mm2(),
-            resistance_20c_ohm: res / temperature_factor(c.hot_c),
-            copper_mass_g: copper_mass_g(cut, wire.area_mm2()),
-            wire,
-            coil,
-            length_m,
-            cut_length_m: cut,
-            resistance_ohm: res,
-            copper_loss_w: cu,
-            volts_no_load: v_nl,
-            volts_full_load: v_fl,
-            regulation_pct: (i != p_idx && v_fl > 0.0).then(|| regulation_pct(v_nl, v_fl)),
-            max_volts_full_load: if i == p_idx { None } else { r.max_fl[i] },
-            taps,
-        });
-    }
+    let windings: Vec<WindingPlan> = (0..c.job.windings.len())
+        .map(|i| winding_plan(c, st, r, i))
+        .collect();
+    let p_out = windings
+        .iter()
+        .filter(|w| w.role == Role::Secondary)
+        .map(|w| w.sections as f64 * w.volts_full_load.max(0.0) * w.amps)
+        .sum();
+    let p_cu = windings.iter().map(|w| w.copper_loss_w).sum();
     (windings, p_out, p_cu)
 }
 
+/// One winding's figures. Turns, resistance, lengths and volts are one half's or section's; the
+/// copper loss and mass are the whole winding's.
+fn winding_plan(c: &Ctx, st: &State, r: &Round, i: usize) -> WindingPlan {
+    let job = c.job;
+    let w = &job.windings[i];
+    let primary = i == c.p_idx;
+    let k = c.mult(i);
+    let r_p = c.r_p_eff(&r.r_hot);
+    let n = st.turns[i];
+    let wire = st.wires[i].clone();
+    let mut coil = r.lay.coils[i].clone();
+    coil.fill_checkpoints();
+    let amps = if primary { st.primary_amps } else { w.amps };
+    let section_amps = c.section_amps(i, st.primary_amps);
+    let length_m = n as f64 * coil.mean_turn_mm / 1000.0;
+    let cut = length_m + 2.0 * job.lead_m;
+    let res = r.r_hot[i];
+    let cu = if primary {
+        amps * amps * r_p
+    } else {
+        k * amps * amps * res
+    };
+    let (v_nl, v_fl) = if primary {
+        (c.v_p_rms, c.v_p_rms - amps * r_p)
+    } else {
+        let nf = n as f64;
+        let fl = full_load_volts(nf, st.n_p, c.v_p_rms, st.primary_amps, r_p, w.amps, res);
+        (nf * r.v_turn, fl)
+    };
+    let area = wire.area_mm2();
+    WindingPlan {
+        name: w.name.clone(),
+        role: w.role,
+        kept: w.kept,
+        resistance_measured: w.resistance_ohm.is_some(),
+        volts: w.volts,
+        volts_given: w.volts_given,
+        amps,
+        section_amps,
+        sections: w.sections.max(1),
+        centre_tap: w.centre_tap,
+        bifilar: w.bifilar,
+        turns_fixed: w.fixed_turns.is_some(),
+        bobbin_section: w.bobbin_section,
+        load_duty: w.load_duty,
+        turns: n,
+        grade_label: grade_label(job, &wire.conductor),
+        current_density_a_mm2: section_amps / area,
+        adiabatic_rise_c: w
+            .on_time_s
+            .map(|t| adiabatic_rise_c(section_amps / area, c.hot_c, t)),
+        resistance_20c_ohm: res / temperature_factor(c.hot_c),
+        copper_mass_g: copper_mass_g(cut, area) * k,
+        taps: taps_of(c, st, r, i, res),
+        wire,
+        coil,
+        length_m,
+        cut_length_m: cut,
+        resistance_ohm: res,
+        copper_loss_w: cu,
+        volts_no_load: v_nl,
+        volts_full_load: v_fl,
+        regulation_pct: (!primary && v_fl > 0.0).then(|| regulation_pct(v_nl, v_fl)),
+        max_volts_full_load: if primary { None } else { r.max_fl[i] },
+    }
+}
+
+/// The tap turns of winding `i`: on an output, the fewest turns whose full-load volts reach the
+/// tap's; on the primary, the turns that hold the flux at the tap's volts (N_p × tap/volts, up).
+fn taps_of(c: &Ctx, st: &State, r: &Round, i: usize, res: f64) -> Vec<Tap> {
+    let w = &c.job.windings[i];
+    let n = st.turns[i];
+    let r_p = c.r_p_eff(&r.r_hot);
+    let b = c.mult(i) * r_p / (st.n_p as f64 * st.n_p as f64);
+    let v_eff = r.v_turn - r_p * rest_of_primary(st, i, c.mult(i) * w.amps) / st.n_p as f64;
+    w.taps_volts
+        .iter()
+        .map(|&tv| Tap {
+            volts: tv,
+            turn: if i == c.p_idx {
+                ceil_turns(n as f64 * tv / w.volts).min(n)
+            } else {
+                smallest_turns(tv, v_eff, w.amps, res / n.max(1) as f64, b)
+                    .0
+                    .min(n)
+            },
+        })
+        .collect()
+}
+
+/// The enamel grade or build of a conductor, as the plan labels it.
+fn grade_label(job: &Job, c: &Conductor) -> &'static str {
+    match c {
+        Conductor::Round(rs) => job.grade.label(rs.system),
+        Conductor::Strip { .. } => "strip, insulated",
+        Conductor::Kept { .. } => "kept",
+        Conductor::Measured { .. } if job.grade == crate::wire::Grade::One => {
+            "grade 1, overall diameter interpolated"
+        }
+        Conductor::Measured { .. } => "grade 2, overall diameter interpolated",
+        Conductor::Cable { .. } => "insulated cable",
+    }
+}
+
+/// Volumetric heat capacity of copper, J/(cm³·K) (DESIGN.md: 8.89 g/cm³ × 0.385 J/(g·K), IEC 60028
+/// density and general physics tables; 3.42 by the product, 3.45 as DESIGN.md states it).
+pub const COPPER_CV_J_CM3_K: f64 = 3.45;
+
+/// The copper's own rise in one on-time with no cooling (adiabatic): ΔT = J²·ρ·t / c_v, J in A/mm²,
+/// ρ in Ω·mm²/m at `hot_c` (so J²·ρ is W/cm³), t in s.
+pub fn adiabatic_rise_c(j_a_mm2: f64, hot_c: f64, on_time_s: f64) -> f64 {
+    let rho = crate::losses::RHO20_OHM_MM2_PER_M * temperature_factor(hot_c);
+    j_a_mm2 * j_a_mm2 * rho * on_time_s / COPPER_CV_J_CM3_K
+}
+
 /// The box around core and coil, and the rise from the time-averaged loss (McLyman).
-fn heating(c: &Ctx, r: &Round, p_cu: f64) -> Thermal {
+fn heating(c: &Ctx, r: &Round, windings: &[WindingPlan]) -> Thermal {
     let job = c.job;
     let total_build = r.lay.build_mm;
     let (box_w, box_h) = match job.core.shape {
@@ -836,11 +969,15 @@ fn heating(c: &Ctx, r: &Round, p_cu: f64) -> Thermal {
         ),
     };
     let surface = box_surface_cm2(box_w, box_h, job.core.stack_mm + 2.0 * total_build);
-    // Intermittent load: the copper loss averaged over time; forced air: more surface, in effect.
-    let rise = rise_c(
-        p_cu * job.load_duty + r.core_w,
-        surface * job.cooling_factor,
-    );
+    // Intermittent loads: each output's copper loss at its duty, the primary's at the outputs'
+    // power-weighted duty (exact for one load); `rate --duty` scales all; forced air: more
+    // surface, in effect.
+    let average = average_copper_w(windings) * job.load_duty;
+    let rise = rise_c(average + r.core_w, surface * job.cooling_factor);
+    let adiabatic = windings
+        .iter()
+        .filter_map(|w| w.adiabatic_rise_c)
+        .fold(0.0, f64::max);
     Thermal {
         surface_cm2: surface,
         rise_c: rise,
@@ -848,7 +985,38 @@ fn heating(c: &Ctx, r: &Round, p_cu: f64) -> Thermal {
         hot_c: job.ambient_c + rise,
         resistance_at_c: c.hot_c,
         max_rise_c: job.max_rise_c,
+        average_copper_w: average,
+        hot_spot_c: job.ambient_c + rise + adiabatic,
+        insulation_class: job.insulation_class,
     }
+}
+
+/// The copper loss averaged over time: each output's at its load duty, the primary's at the
+/// outputs' duty weighted by their power.
+fn average_copper_w(windings: &[WindingPlan]) -> f64 {
+    let outputs = || windings.iter().filter(|w| w.role == Role::Secondary);
+    let power: f64 = outputs()
+        .map(|w| w.sections as f64 * w.volts_full_load.max(0.0) * w.amps)
+        .sum();
+    let duty_p = if power > 0.0 {
+        outputs()
+            .map(|w| w.load_duty * w.sections as f64 * w.volts_full_load.max(0.0) * w.amps)
+            .sum::<f64>()
+            / power
+    } else {
+        outputs().map(|w| w.load_duty).fold(0.0, f64::max)
+    };
+    windings
+        .iter()
+        .map(|w| {
+            let d = if w.role == Role::Primary {
+                duty_p
+            } else {
+                w.load_duty
+            };
+            w.copper_loss_w * d
+        })
+        .sum()
 }
 
 /// How a kept output's drive compares with the donor's sine flux.
@@ -996,10 +1164,25 @@ fn checks(
             },
         },
     ];
+    checks.push(Check {
+        ok: thermal.hot_spot_c <= thermal.insulation_class.limit_c() + 1e-9,
+        figures: CheckFigures::InsulationClass {
+            hot_spot_c: thermal.hot_spot_c,
+            class: thermal.insulation_class.letter(),
+            limit_c: thermal.insulation_class.limit_c(),
+        },
+    });
     let worst_j = windings
         .iter()
-        // A kept winding's wire was not chosen: its current density is not a check of this design.
-        .filter(|w| !matches!(w.wire.conductor, Conductor::Kept { .. }))
+        // The limit is on the wire the plan chooses: a kept winding's and a conductor the job gives
+        // (a size, strip, cable or measured wire) are judged by heating and the insulation class.
+        .filter(|w| {
+            !matches!(w.wire.conductor, Conductor::Kept { .. })
+                && !job
+                    .windings
+                    .iter()
+                    .any(|s| s.name == w.name && s.wire.given())
+        })
         .map(|w| (w.current_density_a_mm2, w.name.as_str()))
         .fold((0.0, ""), |acc, x| if x.0 > acc.0 { x } else { acc });
     checks.push(Check {
@@ -1015,14 +1198,30 @@ fn checks(
         figures: CheckFigures::PrimaryCurrent { amps: primary_amps },
     });
     for w in windings.iter().filter(|w| w.role == Role::Secondary) {
+        let tolerance = job
+            .windings
+            .iter()
+            .find(|s| s.name == w.name)
+            .filter(|s| s.fixed_turns.is_some())
+            .map(|s| s.volts_tolerance_pct);
+        let ok = match tolerance {
+            // Fixed turns: within the tolerance either way of the volts, when they are given.
+            Some(t) if w.volts_given => {
+                (w.volts_full_load - w.volts).abs() <= w.volts * t / 100.0 * (1.0 + 1e-9)
+            }
+            Some(_) => true,
+            None => w.volts_full_load >= w.volts * (1.0 - 1e-9),
+        };
         checks.push(Check {
-            ok: w.volts_full_load >= w.volts * (1.0 - 1e-9),
+            ok,
             figures: CheckFigures::Output {
                 winding: w.name.clone(),
                 volts_full_load: w.volts_full_load,
                 amps: w.amps,
                 target_volts: w.volts,
                 max_volts: w.max_volts_full_load,
+                tolerance_pct: tolerance.filter(|_| w.volts_given),
+                fixed_no_target: tolerance.is_some() && !w.volts_given,
             },
         });
     }
@@ -1040,7 +1239,7 @@ pub fn plan(job: &Job) -> Plan {
         .iter()
         .filter_map(|w| w.regulation_pct)
         .fold(0.0, f64::max);
-    let thermal = heating(&c, &r, p_cu);
+    let thermal = heating(&c, &r, &windings);
     late_warnings(&c, &r, &windings, st.primary_amps, &mut warnings);
     let verdict = Verdict::new(checks(&c, &r, &windings, &thermal, st.primary_amps));
     let (f, ae) = (job.frequency_hz, c.g.area_net_mm2);

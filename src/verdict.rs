@@ -21,6 +21,8 @@ pub enum CheckKind {
     PrimaryCurrent,
     /// An output's full-load voltage against its target.
     Output,
+    /// The hottest copper against the insulation's thermal class.
+    InsulationClass,
 }
 
 impl CheckKind {
@@ -33,6 +35,7 @@ impl CheckKind {
             CheckKind::CurrentDensity => "current-density",
             CheckKind::PrimaryCurrent => "primary-current",
             CheckKind::Output => "output",
+            CheckKind::InsulationClass => "insulation-class",
         }
     }
 }
@@ -106,6 +109,19 @@ pub enum CheckFigures {
         target_volts: f64,
         /// The most the winding can deliver at full load, V.
         max_volts: Option<f64>,
+        /// Fixed turns: how far either way the volts may be, %.
+        tolerance_pct: Option<f64>,
+        /// Fixed turns and no volts to compare with: the check only reports.
+        fixed_no_target: bool,
+    },
+    /// The hottest copper against the insulation class.
+    InsulationClass {
+        /// Hot-spot copper temperature, °C.
+        hot_spot_c: f64,
+        /// The class letter (IEC 60085).
+        class: &'static str,
+        /// Its temperature, °C.
+        limit_c: f64,
     },
 }
 
@@ -128,6 +144,7 @@ impl Check {
             CheckFigures::CurrentDensity { .. } => CheckKind::CurrentDensity,
             CheckFigures::PrimaryCurrent { .. } => CheckKind::PrimaryCurrent,
             CheckFigures::Output { .. } => CheckKind::Output,
+            CheckFigures::InsulationClass { .. } => CheckKind::InsulationClass,
         }
     }
 
@@ -140,6 +157,7 @@ impl Check {
             CheckFigures::CurrentDensity { .. } => "current density".to_string(),
             CheckFigures::PrimaryCurrent { .. } => "primary current".to_string(),
             CheckFigures::Output { winding, .. } => format!("output {winding}"),
+            CheckFigures::InsulationClass { .. } => "insulation class".to_string(),
         }
     }
 }

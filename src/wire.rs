@@ -25,6 +25,8 @@ pub enum System {
     Metric,
     /// American Wire Gauge (ASTM B258).
     Awg,
+    /// British Standard Wire Gauge (BS 3737:1964).
+    Swg,
 }
 
 impl System {
@@ -33,6 +35,7 @@ impl System {
         match self {
             System::Metric => "metric",
             System::Awg => "awg",
+            System::Swg => "swg",
         }
     }
 }
@@ -50,8 +53,8 @@ impl Grade {
     /// Label for a system: `grade 2` for metric, `heavy build` for AWG.
     pub fn label(self, system: System) -> &'static str {
         match (self, system) {
-            (Grade::One, System::Metric) => "grade 1",
-            (Grade::Two, System::Metric) => "grade 2",
+            (Grade::One, System::Metric | System::Swg) => "grade 1",
+            (Grade::Two, System::Metric | System::Swg) => "grade 2",
             (Grade::One, System::Awg) => "single build",
             (Grade::Two, System::Awg) => "heavy build",
         }
@@ -86,6 +89,22 @@ pub enum Conductor {
         thickness_mm: f64,
         /// Insulation added to each dimension, mm.
         insulation_mm: f64,
+    },
+    /// An enamelled round wire measured with a micrometer (any diameter): its overall diameter from
+    /// the enamel grade, interpolated (`overall_for_bare_mm`).
+    Measured {
+        /// Bare diameter, mm.
+        bare_mm: f64,
+        /// Overall diameter, mm (interpolated).
+        overall_mm: f64,
+    },
+    /// Stranded, insulated cable: resistance from its copper cross-section, layout from its outer
+    /// diameter.
+    Cable {
+        /// Copper cross-section, mm².
+        area_mm2: f64,
+        /// Outer diameter over the insulation, mm.
+        od_mm: f64,
     },
     /// A donor's own winding left on the core: nobody chose its wire. Its copper area comes from
     /// its measured resistance, else from its measured build, else from its current at the job's
@@ -137,6 +156,8 @@ impl Conductor {
                 ..
             } => width_mm * thickness_mm,
             Conductor::Kept { area_mm2, .. } => *area_mm2,
+            Conductor::Measured { bare_mm, .. } => round_area_mm2(*bare_mm),
+            Conductor::Cable { area_mm2, .. } => *area_mm2,
         }
     }
     /// The size along the traverse, with insulation, mm (what a turn takes on a layer).
@@ -148,7 +169,10 @@ impl Conductor {
                 insulation_mm,
                 ..
             } => width_mm + insulation_mm,
-            Conductor::Kept { overall_mm, .. } => *overall_mm,
+            Conductor::Kept { overall_mm, .. } | Conductor::Measured { overall_mm, .. } => {
+                *overall_mm
+            }
+            Conductor::Cable { od_mm, .. } => *od_mm,
         }
     }
     /// The size in the build direction, with insulation, mm (what a layer adds).
@@ -160,7 +184,10 @@ impl Conductor {
                 insulation_mm,
                 ..
             } => thickness_mm + insulation_mm,
-            Conductor::Kept { overall_mm, .. } => *overall_mm,
+            Conductor::Kept { overall_mm, .. } | Conductor::Measured { overall_mm, .. } => {
+                *overall_mm
+            }
+            Conductor::Cable { od_mm, .. } => *od_mm,
         }
     }
     /// The bare dimension in the build direction (diameter or thickness), mm.
@@ -169,6 +196,8 @@ impl Conductor {
             Conductor::Round(r) => r.bare_mm,
             Conductor::Strip { thickness_mm, .. } => *thickness_mm,
             Conductor::Kept { overall_mm, .. } => overall_mm / 1.07,
+            Conductor::Measured { bare_mm, .. } => *bare_mm,
+            Conductor::Cable { area_mm2, .. } => (4.0 * area_mm2 / PI).sqrt(),
         }
     }
     /// `metric`, `awg`, `strip` or `kept`.
@@ -177,6 +206,8 @@ impl Conductor {
             Conductor::Round(r) => r.system.name(),
             Conductor::Strip { .. } => "strip",
             Conductor::Kept { .. } => "kept",
+            Conductor::Measured { .. } => "measured",
+            Conductor::Cable { .. } => "cable",
         }
     }
     /// The size label: `1.60`, `14`, or `10.0x1.00` for strip.
@@ -189,12 +220,15 @@ impl Conductor {
                 ..
             } => format!("{width_mm:.1}x{thickness_mm:.2}"),
             Conductor::Kept { .. } => "kept".to_string(),
+            Conductor::Measured { bare_mm, .. } => format_metric(*bare_mm),
+            Conductor::Cable { area_mm2, .. } => format!("{area_mm2}"),
         }
     }
     /// A person's description: `1.60 mm`, `AWG 14`, `strip 10.0 x 1.00 mm`.
     pub fn describe(&self) -> String {
         match self {
             Conductor::Round(r) if r.system == System::Metric => format!("{} mm", r.size),
+            Conductor::Round(r) if r.system == System::Swg => format!("SWG {}", r.size),
             Conductor::Round(r) => format!("AWG {}", r.size),
             Conductor::Strip {
                 width_mm,
@@ -204,6 +238,12 @@ impl Conductor {
                 format!("strip {width_mm:.1} x {thickness_mm:.2} mm")
             }
             Conductor::Kept { .. } => "kept".to_string(),
+            Conductor::Measured { bare_mm, .. } => {
+                format!("{} mm (measured)", format_metric(*bare_mm))
+            }
+            Conductor::Cable { area_mm2, od_mm } => {
+                format!("cable {area_mm2} mm² ({od_mm:.1} mm over insulation)")
+            }
         }
     }
 }
@@ -228,7 +268,9 @@ pub fn round_area_mm2(d_mm: f64) -> f64 {
 
 /// All sizes of a system with the overall diameter of a grade, thinnest first (built once).
 pub fn sizes(system: System, grade: Grade) -> &'static [RoundSize] {
-    static CELLS: [OnceLock<Vec<RoundSize>>; 4] = [
+    static CELLS: [OnceLock<Vec<RoundSize>>; 6] = [
+        OnceLock::new(),
+        OnceLock::new(),
         OnceLock::new(),
         OnceLock::new(),
         OnceLock::new(),
@@ -239,6 +281,8 @@ pub fn sizes(system: System, grade: Grade) -> &'static [RoundSize] {
         (System::Metric, Grade::Two) => 1,
         (System::Awg, Grade::One) => 2,
         (System::Awg, Grade::Two) => 3,
+        (System::Swg, Grade::One) => 4,
+        (System::Swg, Grade::Two) => 5,
     };
     CELLS[k].get_or_init(|| build_sizes(system, grade))
 }
@@ -274,7 +318,47 @@ fn build_sizes(system: System, grade: Grade) -> Vec<RoundSize> {
                 area_mm2: round_area_mm2(r.bare_mm),
             })
             .collect(),
+        System::Swg => data::swg()
+            .iter()
+            .rev()
+            .map(|r| RoundSize {
+                system,
+                size: r.gauge.to_string(),
+                bare_mm: r.bare_mm,
+                overall_mm: if grade == Grade::One {
+                    r.grade1_max_mm
+                } else {
+                    r.grade2_max_mm
+                },
+                area_mm2: round_area_mm2(r.bare_mm),
+            })
+            .collect(),
     }
+}
+
+/// The overall diameter of an enamelled round wire of bare diameter `d_mm` (measured with a
+/// micrometer): the metric table's enamel increase of the grade (IEC 60317-0-1 via IS 13730-0-1),
+/// interpolated linearly in diameter, held at the table's ends.
+pub fn overall_for_bare_mm(d_mm: f64, grade: Grade) -> f64 {
+    let rows = sizes(System::Metric, grade);
+    let inc = |r: &RoundSize| r.overall_mm - r.bare_mm;
+    let (Some(first), Some(last)) = (rows.first(), rows.last()) else {
+        return d_mm * 1.07;
+    };
+    if d_mm <= first.bare_mm {
+        return d_mm + inc(first);
+    }
+    if d_mm >= last.bare_mm {
+        return d_mm + inc(last);
+    }
+    for pair in rows.windows(2) {
+        let (a, b) = (&pair[0], &pair[1]);
+        if d_mm <= b.bare_mm {
+            let t = (d_mm - a.bare_mm) / (b.bare_mm - a.bare_mm);
+            return d_mm + inc(a) + t * (inc(b) - inc(a));
+        }
+    }
+    d_mm + inc(last)
 }
 
 fn format_metric(d: f64) -> String {
@@ -302,9 +386,22 @@ pub fn find_size(label: &str, grade: Grade) -> Result<&'static RoundSize, String
             .find(|s| s.size == gauge.to_string())
             .ok_or_else(|| format!("AWG {gauge} is not in the table (AWG 4 to 40)"));
     }
+    let swg_part = t
+        .strip_prefix("swg")
+        .or_else(|| t.strip_suffix("swg"))
+        .map(str::trim);
+    if let Some(g) = swg_part {
+        let gauge: u32 = g.parse().map_err(|_| {
+            format!("`{label}`: expected an SWG gauge from 4 to 40, like \"SWG 18\"")
+        })?;
+        return sizes(System::Swg, grade)
+            .iter()
+            .find(|s| s.size == gauge.to_string())
+            .ok_or_else(|| format!("SWG {gauge} is not in the table (SWG 4 to 40, BS 3737)"));
+    }
     let d: f64 = t.trim_end_matches("mm").trim().parse().map_err(|_| {
         format!(
-            "`{label}`: expected a metric diameter like \"1.60\" or an AWG size like \"AWG 14\""
+            "`{label}`: expected a metric diameter like \"1.60\", an AWG size like \"AWG 14\" or an SWG size like \"SWG 18\""
         )
     })?;
     sizes(System::Metric, grade)
@@ -324,6 +421,10 @@ pub struct WireRequest {
     pub strands: Option<u32>,
     /// A strip conductor (width, thickness) in mm.
     pub strip_mm: Option<(f64, f64)>,
+    /// A round wire measured with a micrometer, bare diameter in mm.
+    pub bare_mm: Option<f64>,
+    /// Stranded insulated cable: copper cross-section mm², outer diameter mm.
+    pub cable: Option<(f64, f64)>,
 }
 
 /// A chosen conductor and strand count.
@@ -333,6 +434,16 @@ pub struct WireChoice {
     pub conductor: Conductor,
     /// Strands in hand.
     pub strands: u32,
+}
+
+impl WireRequest {
+    /// Whether the job gives the conductor (a size, strip, measured wire or cable).
+    pub fn given(&self) -> bool {
+        self.size.is_some()
+            || self.strip_mm.is_some()
+            || self.bare_mm.is_some()
+            || self.cable.is_some()
+    }
 }
 
 impl WireChoice {
@@ -356,6 +467,31 @@ pub fn choose(
     req: &WireRequest,
 ) -> WireChoice {
     let need = (amps / j_a_mm2).max(0.0);
+    if let Some((area, od)) = req.cable {
+        let strands = req
+            .strands
+            .unwrap_or_else(|| ((need / area - 1e-9).ceil() as u32).max(1));
+        return WireChoice {
+            conductor: Conductor::Cable {
+                area_mm2: area,
+                od_mm: od,
+            },
+            strands,
+        };
+    }
+    if let Some(d) = req.bare_mm {
+        let area = round_area_mm2(d);
+        let strands = req
+            .strands
+            .unwrap_or_else(|| ((need / area - 1e-9).ceil() as u32).max(1));
+        return WireChoice {
+            conductor: Conductor::Measured {
+                bare_mm: d,
+                overall_mm: overall_for_bare_mm(d, grade),
+            },
+            strands,
+        };
+    }
     if let Some((w, t)) = req.strip_mm {
         let area = w * t;
         let strands = req

@@ -139,6 +139,7 @@ fn check_finite(v: &serde_json::Value, path: &str) {
         "flux_vs_donor",
         "kept_output_note",
         "kept_limit",
+        "adiabatic_rise_c",
         "max_volts_full_load",
         // The primary's, and an output's that delivers nothing at full load (its check fails).
         "regulation_pct",

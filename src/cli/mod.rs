@@ -54,7 +54,7 @@ struct Cli {
 const fn version_text() -> &'static str {
     concat!(
         env!("CARGO_PKG_VERSION"),
-        " (data tables: wire_awg 1, wire_metric 1, steel 1)"
+        " (data tables: wire_awg 1, wire_metric 1, wire_swg 1, steel 2)"
     )
 }
 

@@ -114,6 +114,8 @@ fn wire_text(w: &WindingPlan) -> String {
             format!("{} (insulated {} mm)", c.describe(), num(*insulation_mm, 2))
         }
         Conductor::Kept { .. } => "the donor's own".to_string(),
+        Conductor::Measured { .. } => format!("{} ({})", c.describe(), w.grade_label),
+        Conductor::Cable { .. } => c.describe(),
     };
     let strands = if w.wire.strands == 1 {
         "1 strand".to_string()

@@ -169,8 +169,24 @@ pub struct WindingJson<'a> {
     pub volts: f64,
     /// Full-load amps.
     pub amps: f64,
-    /// Turns.
+    /// Turns, per half or section.
     pub turns: u32,
+    /// Halves or sections: 2 for a centre tap, N for sections, 1 otherwise.
+    pub sections: u32,
+    /// RMS current in one half or section, A.
+    pub section_amps: f64,
+    /// Centre-tapped.
+    pub centre_tap: bool,
+    /// Halves or sections wound together.
+    pub bifilar: bool,
+    /// Turns fixed by the job.
+    pub turns_fixed: bool,
+    /// Its section of a split bobbin (1 or 2; 1 on a single bobbin).
+    pub section: u32,
+    /// Fraction of the time its load is on.
+    pub load_duty: f64,
+    /// The copper's own rise in one on-time, °C (null without on_time_s).
+    pub adiabatic_rise_c: Option<f64>,
     /// Turns on one coil (half for `ui`).
     pub coil_turns: u32,
     /// Strands in hand.
@@ -260,6 +276,14 @@ pub struct ThermalJson {
     pub hot_c: f64,
     /// Allowed rise, °C.
     pub max_rise_c: f64,
+    /// Time-averaged copper loss, W.
+    pub average_copper_w: f64,
+    /// Hottest copper, °C.
+    pub hot_spot_c: f64,
+    /// Insulation class letter (IEC 60085).
+    pub insulation_class: &'static str,
+    /// Its temperature, °C.
+    pub insulation_class_c: f64,
 }
 
 /// Probe keys.
@@ -351,7 +375,7 @@ pub fn buy_list(plan: &Plan, spare: f64) -> Vec<BuyRow> {
     for w in plan.windings.iter().filter(|w| !w.kept) {
         let size = w.wire.conductor.size_label();
         let system = w.wire.conductor.system_name();
-        let strands = w.wire.strands as f64;
+        let strands = w.wire.strands as f64 * w.sections as f64;
         let len = w.cut_length_m * strands * (1.0 + spare);
         let mass = w.copper_mass_g * (1.0 + spare);
         match rows
@@ -437,6 +461,14 @@ fn winding_json(w: &WindingPlan) -> WindingJson<'_> {
         volts: w.volts,
         amps: w.amps,
         turns: w.turns,
+        sections: w.sections,
+        section_amps: w.section_amps,
+        centre_tap: w.centre_tap,
+        bifilar: w.bifilar,
+        turns_fixed: w.turns_fixed,
+        section: w.bobbin_section,
+        load_duty: w.load_duty,
+        adiabatic_rise_c: w.adiabatic_rise_c,
         coil_turns: w.coil.coil_turns,
         strands: w.wire.strands,
         conductor: ConductorJson {
@@ -542,6 +574,10 @@ pub fn plan_json(plan: &Plan, spare: f64) -> PlanJson<'_> {
             ambient_c: plan.thermal.ambient_c,
             hot_c: plan.thermal.hot_c,
             max_rise_c: plan.thermal.max_rise_c,
+            average_copper_w: plan.thermal.average_copper_w,
+            hot_spot_c: plan.thermal.hot_spot_c,
+            insulation_class: plan.thermal.insulation_class.letter(),
+            insulation_class_c: plan.thermal.insulation_class.limit_c(),
         },
         probe: plan.probe.as_ref().map(|p| ProbeJson {
             volts_per_turn: p.volts_per_turn,

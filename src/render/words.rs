@@ -57,6 +57,22 @@ pub fn check_detail(c: &Check) -> String {
         CheckFigures::Output {
             volts_full_load,
             amps,
+            fixed_no_target: true,
+            ..
+        } => format!("{volts_full_load:.2} V at {amps:.2} A (fixed turns, no volts to compare)"),
+        CheckFigures::Output {
+            volts_full_load,
+            amps,
+            target_volts,
+            tolerance_pct: Some(t),
+            ..
+        } => format!(
+            "{volts_full_load:.2} V at {amps:.2} A with fixed turns ({:+.1} % from {target_volts:.2} V; within ±{t:.0} % passes)",
+            (volts_full_load - target_volts) / target_volts * 100.0
+        ),
+        CheckFigures::Output {
+            volts_full_load,
+            amps,
             target_volts,
             ..
         } if c.ok => format!("{volts_full_load:.2} V at {amps:.2} A (target {target_volts:.2} V)"),
@@ -69,6 +85,13 @@ pub fn check_detail(c: &Check) -> String {
         } => format!(
             "{volts_full_load:.2} V at {amps:.2} A, short of {target_volts:.2} V; the most it can deliver is {:.2} V",
             max_volts.unwrap_or(*volts_full_load).min(1e9)
+        ),
+        CheckFigures::InsulationClass {
+            hot_spot_c,
+            class,
+            limit_c,
+        } => format!(
+            "hottest copper {hot_spot_c:.0} °C, class {class} insulation {limit_c:.0} °C (IEC 60085)"
         ),
     }
 }

@@ -111,6 +111,14 @@ struct Winding {
     volts_full_load: f64,
     regulation_pct: Option<f64>,
     max_volts_full_load: Option<f64>,
+    sections: u32,
+    section_amps: f64,
+    centre_tap: bool,
+    bifilar: bool,
+    turns_fixed: bool,
+    section: u32,
+    load_duty: f64,
+    adiabatic_rise_c: Option<f64>,
     taps: Vec<Tap>,
 }
 
@@ -144,6 +152,10 @@ struct Thermal {
     ambient_c: f64,
     hot_c: f64,
     max_rise_c: f64,
+    average_copper_w: f64,
+    hot_spot_c: f64,
+    insulation_class: String,
+    insulation_class_c: f64,
 }
 
 #[derive(Deserialize)]
@@ -203,6 +215,7 @@ enum CheckKind {
     CurrentDensity,
     PrimaryCurrent,
     Output,
+    InsulationClass,
 }
 
 #[derive(Deserialize)]
@@ -242,6 +255,7 @@ fn every_example_plan_matches_the_mirror() {
                 "current density" => CheckKind::CurrentDensity,
                 "primary current" => CheckKind::PrimaryCurrent,
                 n if n.starts_with("output ") => CheckKind::Output,
+                "insulation class" => CheckKind::InsulationClass,
                 n => panic!("unknown check name {n}"),
             };
             assert_eq!(c.kind, want, "{}", c.name);

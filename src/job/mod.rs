@@ -13,8 +13,10 @@ use crate::magnetics::{steel_info, SteelInfo, Waveform, MAX_FLUX_T};
 use crate::probe::SweepPoint;
 use crate::probe::{ProbeInput, SweepLoader};
 use crate::units::LengthInput;
-use crate::wire::{find_size, Grade, System, WireRequest, CMIL_PER_A_AT_1_A_MM2};
+use crate::wire::{Grade, System, WireRequest, CMIL_PER_A_AT_1_A_MM2};
 use serde::Deserialize;
+
+mod winding;
 
 /// Largest job file read, bytes (a job is a few hundred bytes; this refuses a wrong file early).
 pub const MAX_JOB_BYTES: usize = 1 << 20;
@@ -29,7 +31,7 @@ struct RawJob {
     wire: Option<RawWire>,
     insulation: Option<RawInsulation>,
     probe: Option<RawProbe>,
-    winding: Vec<RawWinding>,
+    winding: Vec<winding::RawWinding>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -43,6 +45,9 @@ struct RawCore {
     stacking_factor: Option<f64>,
     steel: Option<String>,
     bobbin_wall_mm: Option<LengthInput>,
+    bobbin: Option<String>,
+    divider_mm: Option<LengthInput>,
+    split_at: Option<f64>,
     outer_leg_mm: Option<LengthInput>,
     yoke_mm: Option<LengthInput>,
     mass_g: Option<f64>,
@@ -64,6 +69,7 @@ struct RawLimits {
     current_density_cmil_per_a: Option<f64>,
     ambient_c: Option<f64>,
     max_rise_c: Option<f64>,
+    insulation_class: Option<String>,
 }
 
 #[derive(Debug, Default, Deserialize)]
@@ -98,24 +104,6 @@ struct RawProbe {
     sweep_winding: Option<String>,
 }
 
-#[derive(Debug, Deserialize)]
-#[serde(deny_unknown_fields)]
-struct RawWinding {
-    name: String,
-    role: String,
-    volts: f64,
-    amps: Option<f64>,
-    size: Option<String>,
-    strands: Option<u32>,
-    strip_mm: Option<Vec<LengthInput>>,
-    taps_volts: Option<Vec<f64>>,
-    kept: Option<bool>,
-    rated_volts: Option<f64>,
-    resistance_ohm: Option<f64>,
-    build_mm: Option<LengthInput>,
-    current_density_a_mm2: Option<f64>,
-}
-
 /// The role of a winding.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Role {
@@ -135,6 +123,57 @@ impl Role {
     }
 }
 
+/// An insulation thermal class (IEC 60085): the hottest the copper may run.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum InsulationClass {
+    /// 105 °C.
+    A,
+    /// 120 °C.
+    E,
+    /// 130 °C.
+    B,
+    /// 155 °C.
+    F,
+    /// 180 °C.
+    H,
+}
+
+impl InsulationClass {
+    /// The class of a letter (any case).
+    pub fn from_letter(s: &str) -> Option<InsulationClass> {
+        match s.trim().to_ascii_uppercase().as_str() {
+            "A" => Some(InsulationClass::A),
+            "E" => Some(InsulationClass::E),
+            "B" => Some(InsulationClass::B),
+            "F" => Some(InsulationClass::F),
+            "H" => Some(InsulationClass::H),
+            _ => None,
+        }
+    }
+
+    /// Its letter.
+    pub fn letter(self) -> &'static str {
+        match self {
+            InsulationClass::A => "A",
+            InsulationClass::E => "E",
+            InsulationClass::B => "B",
+            InsulationClass::F => "F",
+            InsulationClass::H => "H",
+        }
+    }
+
+    /// Its temperature, °C (IEC 60085: A 105, E 120, B 130, F 155, H 180).
+    pub fn limit_c(self) -> f64 {
+        match self {
+            InsulationClass::A => 105.0,
+            InsulationClass::E => 120.0,
+            InsulationClass::B => 130.0,
+            InsulationClass::F => 155.0,
+            InsulationClass::H => 180.0,
+        }
+    }
+}
+
 /// A checked winding.
 #[derive(Debug, Clone, PartialEq)]
 pub struct WindingSpec {
@@ -142,10 +181,30 @@ pub struct WindingSpec {
     pub name: String,
     /// Primary or secondary.
     pub role: Role,
-    /// Volts: RMS, or the amplitude for a primary under a square or quasi-square drive.
+    /// Volts: RMS, or the amplitude for a primary under a square or quasi-square drive; per half
+    /// of a centre-tapped winding and per section of a sectioned one (0 when not given: fixed
+    /// turns without a target).
     pub volts: f64,
-    /// Full-load current for an output, A (0 for the primary: it is computed).
+    /// Whether `volts` was given (a fixed-turns output may leave it out).
+    pub volts_given: bool,
+    /// Full-load current for an output, A (per half or section; 0 for the primary: it is computed).
     pub amps: f64,
+    /// Fixed turns (per half or section), when the job gives them.
+    pub fixed_turns: Option<u32>,
+    /// How far a fixed-turns output may be from its volts, either way, %.
+    pub volts_tolerance_pct: f64,
+    /// Halves or sections: 2 for a centre tap, N for `sections`, 1 otherwise.
+    pub sections: u32,
+    /// Two halves in series with the middle brought out.
+    pub centre_tap: bool,
+    /// Halves or sections wound together, strands in hand.
+    pub bifilar: bool,
+    /// Which section of a split bobbin the winding sits in (1 on a single bobbin).
+    pub bobbin_section: u32,
+    /// Fraction of the time the load is on (outputs; 1 for continuous).
+    pub load_duty: f64,
+    /// How long the load is on at a time, s (for the copper's adiabatic rise).
+    pub on_time_s: Option<f64>,
     /// What the job asks of the conductor.
     pub wire: WireRequest,
     /// This winding's own current density for the wire choice, A/mm² (`rate` sets it per winding;
@@ -186,6 +245,8 @@ pub struct Job {
     pub ambient_c: f64,
     /// Allowed temperature rise, °C.
     pub max_rise_c: f64,
+    /// The insulation's thermal class (IEC 60085).
+    pub insulation_class: InsulationClass,
     /// Wire system for automatic choices.
     pub system: System,
     /// Enamel grade.
@@ -247,7 +308,7 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
     let limits = limits_table(&c, raw.limits.unwrap_or_default())?;
     let wire = wire_table(&c, raw.wire.unwrap_or_default(), &mut layout)?;
     insulation_table(&c, raw.insulation.unwrap_or_default(), &mut layout)?;
-    let windings = winding_tables(&c, &raw.winding, wire.grade)?;
+    let windings = winding::winding_tables(&c, &raw.winding, wire.grade, layout.split.is_some())?;
     let names: Vec<&str> = windings.iter().map(|w| w.name.as_str()).collect();
     let probe = match raw.probe {
         None => None,
@@ -278,6 +339,7 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
         current_density_a_mm2: limits.current_density_a_mm2,
         ambient_c: limits.ambient_c,
         max_rise_c: limits.max_rise_c,
+        insulation_class: limits.insulation_class,
         system: wire.system,
         grade: wire.grade,
         max_strand_mm: wire.max_strand_mm,
@@ -330,6 +392,7 @@ fn core_table(c: &Checker, rc: &RawCore) -> Result<(CoreDims, SteelInfo, LayoutS
     if let Some(v) = &rc.bobbin_wall_mm {
         layout.bobbin_wall_mm = c.length0("[core] bobbin_wall_mm", v, 20.0)?;
     }
+    layout.split = split_bobbin(c, rc)?;
     let core = CoreDims {
         shape,
         tongue_mm: a,
@@ -342,6 +405,48 @@ fn core_table(c: &Checker, rc: &RawCore) -> Result<(CoreDims, SteelInfo, LayoutS
         measured_mass_kg: mass,
     };
     Ok((core, steel, layout))
+}
+
+/// `[core] bobbin`, `divider_mm`, `split_at`: a split bobbin's two sections side by side.
+fn split_bobbin(c: &Checker, rc: &RawCore) -> Result<Option<crate::layout::Split>> {
+    let split = match rc.bobbin.as_deref() {
+        Some(b) => c.word("[core] bobbin", b, &["single", "split"])? == "split",
+        None => false,
+    };
+    if !split {
+        if rc.divider_mm.is_some() || rc.split_at.is_some() {
+            let k = if rc.divider_mm.is_some() {
+                "[core] divider_mm"
+            } else {
+                "[core] split_at"
+            };
+            return Err(c.fail(
+                k,
+                "(on a single bobbin)",
+                "divider_mm and split_at describe a split bobbin: add [core] bobbin = \"split\"",
+            ));
+        }
+        return Ok(None);
+    }
+    let divider = match &rc.divider_mm {
+        Some(v) => c.length0("[core] divider_mm", v, 20.0)?,
+        None => 1.5,
+    };
+    let at = match rc.split_at {
+        Some(f) if f.is_finite() && f > 0.0 && f < 1.0 => f,
+        Some(f) => {
+            return Err(c.fail(
+                "[core] split_at",
+                fmt_value(f),
+                "must be > 0 and < 1 (the fraction of the traverse for section 1)",
+            ))
+        }
+        None => 0.5,
+    };
+    Ok(Some(crate::layout::Split {
+        divider_mm: divider,
+        split_at: at,
+    }))
 }
 
 /// `[supply]`: frequency and waveform.
@@ -388,6 +493,7 @@ struct Limits {
     current_density_a_mm2: f64,
     ambient_c: f64,
     max_rise_c: f64,
+    insulation_class: InsulationClass,
 }
 
 /// `[limits]`: flux, current density (A/mm² or cmil/A), ambient and rise.
@@ -431,11 +537,19 @@ fn limits_table(c: &Checker, lim: RawLimits) -> Result<Limits> {
         Some(t) => c.range("[limits] max_rise_c", t, 0.0, false, 150.0, "°C")?,
         None => 50.0,
     };
+    let class = match &lim.insulation_class {
+        Some(k) => {
+            let w = c.word("[limits] insulation_class", k, &["a", "e", "b", "f", "h"])?;
+            InsulationClass::from_letter(&w).unwrap_or(InsulationClass::B)
+        }
+        None => InsulationClass::B,
+    };
     Ok(Limits {
         flux_density_t: flux,
         current_density_a_mm2: j,
         ambient_c: ambient,
         max_rise_c: rise,
+        insulation_class: class,
     })
 }
 
@@ -450,8 +564,12 @@ struct WireTable {
 /// `[wire]`: system, grade, thickest strand, pitch and lead length.
 fn wire_table(c: &Checker, rw: RawWire, layout: &mut LayoutSettings) -> Result<WireTable> {
     let system = match &rw.system {
-        Some(sys) => match c.word("[wire] system", sys, &["metric", "awg"])?.as_str() {
+        Some(sys) => match c
+            .word("[wire] system", sys, &["metric", "awg", "swg"])?
+            .as_str()
+        {
             "awg" => System::Awg,
+            "swg" => System::Swg,
             _ => System::Metric,
         },
         None => System::Metric,
@@ -513,197 +631,6 @@ fn insulation_table(c: &Checker, ri: RawInsulation, layout: &mut LayoutSettings)
     Ok(())
 }
 
-/// Every `[[winding]]`, in order, each checked on its own.
-fn winding_tables(c: &Checker, raw: &[RawWinding], grade: Grade) -> Result<Vec<WindingSpec>> {
-    if raw.is_empty() {
-        return Err(c.fail(
-            "[[winding]]",
-            "(none)",
-            "a job needs one primary and at least one secondary winding",
-        ));
-    }
-    if raw.len() > 32 {
-        return Err(c.fail(
-            "[[winding]]",
-            format!("{} windings", raw.len()),
-            "at most 32 windings",
-        ));
-    }
-    let mut windings: Vec<WindingSpec> = Vec::new();
-    for (i, rw) in raw.iter().enumerate() {
-        let w = winding_table(c, i, rw, grade, &windings)?;
-        windings.push(w);
-    }
-    Ok(windings)
-}
-
-/// One `[[winding]]`: name, role, volts and amps, then its wire, taps and kept-winding keys.
-fn winding_table(
-    c: &Checker,
-    i: usize,
-    rw: &RawWinding,
-    grade: Grade,
-    before: &[WindingSpec],
-) -> Result<WindingSpec> {
-    let at = format!("[[winding]] #{}", i + 1);
-    let name = rw.name.trim().to_string();
-    if name.is_empty() || name.chars().count() > 40 || name.chars().any(char::is_control) {
-        return Err(c.fail(
-            &format!("{at} name"),
-            format!("\"{}\"", rw.name),
-            "must be 1 to 40 printable characters",
-        ));
-    }
-    if before.iter().any(|w| w.name == name) {
-        return Err(c.fail(
-            &format!("{at} name"),
-            format!("\"{name}\""),
-            "winding names must be unique; this one is used twice",
-        ));
-    }
-    let key = |k: &str| format!("[[winding]] \"{name}\" {k}");
-    let role = match c
-        .word(&key("role"), &rw.role, &["primary", "secondary"])?
-        .as_str()
-    {
-        "primary" => Role::Primary,
-        _ => Role::Secondary,
-    };
-    let volts = c.range(&key("volts"), rw.volts, 0.0, false, 100_000.0, "V")?;
-    let amps =
-        match (role, rw.amps) {
-            (Role::Secondary, None) => {
-                return Err(c.fail(
-                    &key("amps"),
-                    "(missing)",
-                    "an output winding needs its full-load amps, > 0 and ≤ 10000 A",
-                ))
-            }
-            (Role::Secondary, Some(i)) => c.range(&key("amps"), i, 0.0, false, 10_000.0, "A")?,
-            (Role::Primary, Some(i)) => return Err(c.fail(
-                &key("amps"),
-                fmt_value(i),
-                "the primary's current is computed from the loads; remove amps from the primary",
-            )),
-            (Role::Primary, None) => 0.0,
-        };
-    let wire = wire_request(c, rw, grade, &key)?;
-    let density = match rw.current_density_a_mm2 {
-        Some(d) => Some(c.range(&key("current_density_a_mm2"), d, 0.1, true, 20.0, "A/mm²")?),
-        None => None,
-    };
-    let taps_volts = taps(c, rw, role, volts, &key)?;
-    let kept = rw.kept.unwrap_or(false);
-    let rated = match rw.rated_volts {
-        Some(v) => Some(c.range(&key("rated_volts"), v, 0.0, false, 100_000.0, "V")?),
-        None => None,
-    };
-    let res = match rw.resistance_ohm {
-        Some(r) => Some(c.range(&key("resistance_ohm"), r, 0.0, false, 100_000.0, "Ω")?),
-        None => None,
-    };
-    let build = match &rw.build_mm {
-        Some(b) => Some(c.length(&key("build_mm"), b, MAX_CORE_MM)?),
-        None => None,
-    };
-    if !kept && (rated.is_some() || res.is_some() || build.is_some()) {
-        return Err(c.fail(&key("kept"), "false", "rated_volts, resistance_ohm and build_mm describe a kept donor winding: add kept = true"));
-    }
-    Ok(WindingSpec {
-        name,
-        role,
-        volts,
-        amps,
-        wire,
-        current_density_a_mm2: density,
-        taps_volts,
-        kept,
-        rated_volts: rated,
-        resistance_ohm: res,
-        build_mm: build,
-    })
-}
-
-/// A winding's `size`, `strands` and `strip_mm`.
-fn wire_request(
-    c: &Checker,
-    rw: &RawWinding,
-    grade: Grade,
-    key: &dyn Fn(&str) -> String,
-) -> Result<WireRequest> {
-    let mut wire = WireRequest::default();
-    if let Some(sz) = &rw.size {
-        wire.size =
-            Some(find_size(sz, grade).map_err(|m| c.fail(&key("size"), format!("\"{sz}\""), m))?);
-    }
-    if let Some(n) = rw.strands {
-        if !(1..=200).contains(&n) {
-            return Err(c.fail(&key("strands"), n, "must be ≥ 1 and ≤ 200"));
-        }
-        wire.strands = Some(n);
-    }
-    if let Some(strip) = &rw.strip_mm {
-        if strip.len() != 2 {
-            return Err(c.fail(
-                &key("strip_mm"),
-                format!("{} values", strip.len()),
-                "must be [width, thickness] in mm",
-            ));
-        }
-        if wire.size.is_some() {
-            return Err(c.fail(
-                &key("strip_mm"),
-                "(with size)",
-                "give either size or strip_mm, not both",
-            ));
-        }
-        let sw = c.length(&key("strip_mm[0] (width)"), &strip[0], 500.0)?;
-        let st = c.length(&key("strip_mm[1] (thickness)"), &strip[1], 20.0)?;
-        if st > sw {
-            return Err(c.fail(
-                &key("strip_mm"),
-                format!("[{sw}, {st}]"),
-                "must be [width, thickness] with width ≥ thickness",
-            ));
-        }
-        if st < 0.05 {
-            return Err(c.fail(&key("strip_mm[1] (thickness)"), st, "must be ≥ 0.05 mm"));
-        }
-        wire.strip_mm = Some((sw, st));
-    }
-    Ok(wire)
-}
-
-/// A winding's `taps_volts`: on outputs only, each below the winding's volts; sorted, unique.
-fn taps(
-    c: &Checker,
-    rw: &RawWinding,
-    role: Role,
-    volts: f64,
-    key: &dyn Fn(&str) -> String,
-) -> Result<Vec<f64>> {
-    let mut taps = rw.taps_volts.clone().unwrap_or_default();
-    if !taps.is_empty() && role == Role::Primary {
-        return Err(c.fail(
-            &key("taps_volts"),
-            "(on the primary)",
-            "taps are planned on output windings only",
-        ));
-    }
-    for t in &taps {
-        if !(t.is_finite() && *t > 0.0 && *t < volts) {
-            return Err(c.fail(
-                &key("taps_volts"),
-                fmt_value(*t),
-                format!("each tap must be > 0 V and below the winding's {volts} V"),
-            ));
-        }
-    }
-    taps.sort_by(f64::total_cmp);
-    taps.dedup();
-    Ok(taps)
-}
-
 /// Rules across tables: one primary, at least one output, at most one kept winding, and a kept
 /// winding's test winding.
 fn cross_table_rules(
@@ -716,7 +643,7 @@ fn cross_table_rules(
         return Err(c.fail(
             "[[winding]] role",
             format!("{primaries} primaries"),
-            "exactly one winding must have role = \"primary\"",
+            "exactly one winding must have role = \"primary\" (a dual primary, 2 × 115 V, is one winding with sections = 2)",
         ));
     }
     if windings.len() < 2 {
