@@ -8,7 +8,8 @@
 //!
 //! The search brackets the capacity by doubling, then bisects on VA; for each VA it bisects on
 //! log J. Wire sizes are discrete, so feasibility can dip and recover near the boundary: after the
-//! bisection the search probes a ladder above it (0.5 % steps to +10 %, then up to twice) and
+//! bisection the search probes a ladder above it (0.05 % steps to +1 %, 0.25 % to +3 %, 0.5 % to
+//! +10 %, then up to twice: near a window boundary feasibility flickers from one VA to the next) and
 //! resumes wherever it finds a feasible point.
 //! `scan` finds the same figure by brute force (geometric steps of 0.1 %), for verification.
 //!
@@ -401,7 +402,9 @@ pub fn capacity(job: &Job) -> Capacity {
         // Wire sizes and layers are discrete, so feasible VA can come back above a failure: probe a
         // ladder of 0.5 % steps to +10 %, then wider steps to twice the VA.
         let ladder = (1..=20)
-            .map(|k| 1.0 + 0.005 * k as f64)
+            .map(|k| 1.0 + 0.0005 * k as f64)
+            .chain((5..=12).map(|k| 1.0 + 0.0025 * k as f64))
+            .chain((7..=20).map(|k| 1.0 + 0.005 * k as f64))
             .chain([1.15, 1.3, 1.6, 2.0]);
         for step in ladder {
             let va = lo_va * step;

@@ -535,12 +535,8 @@ fn choose_wires(c: &Ctx, st: &State) -> Vec<WireChoice> {
         .iter()
         .enumerate()
         .map(|(i, w)| {
-            let amps = if i == c.p_idx {
-                st.primary_amps
-            } else {
-                w.amps
-            };
-            if w.kept && w.wire.size.is_none() && w.wire.strip_mm.is_none() {
+            let amps = c.section_amps(i, st.primary_amps);
+            if w.kept && !w.wire.given() {
                 return kept_wire(c, st, i, amps);
             }
             choose(

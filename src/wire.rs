@@ -468,9 +468,9 @@ pub fn choose(
 ) -> WireChoice {
     let need = (amps / j_a_mm2).max(0.0);
     if let Some((area, od)) = req.cable {
-        let strands = req
-            .strands
-            .unwrap_or_else(|| ((need / area - 1e-9).ceil() as u32).max(1));
+        // A cable is the job's own choice, one run unless `strands` says more: welders and battery
+        // leads run it far above a magnet wire's current density, and heating judges it.
+        let strands = req.strands.unwrap_or(1);
         return WireChoice {
             conductor: Conductor::Cable {
                 area_mm2: area,

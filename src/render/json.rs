@@ -201,6 +201,8 @@ pub struct WindingJson<'a> {
     pub layers: u32,
     /// Build, mm.
     pub build_mm: f64,
+    /// The traverse it winds on (its section's share on a split bobbin), mm.
+    pub traverse_mm: f64,
     /// Running turn count at the end of each layer.
     pub checkpoints: &'a [u32],
     /// Mean turn, mm.
@@ -484,6 +486,7 @@ fn winding_json(w: &WindingPlan) -> WindingJson<'_> {
         turns_per_layer: w.coil.turns_per_layer,
         layers: w.coil.layers,
         build_mm: w.coil.build_mm,
+        traverse_mm: w.coil.traverse_mm,
         checkpoints: &w.coil.checkpoints,
         mean_turn_mm: w.coil.mean_turn_mm,
         length_m: w.length_m,

@@ -220,9 +220,17 @@ fn windings_section(plan: &Plan, look: Look) -> String {
                 w.name.clone()
             },
             w.role.name().to_string(),
-            num(w.volts, 2),
+            if w.volts_given {
+                num(w.volts, 2)
+            } else {
+                "-".into()
+            },
             sig3(w.amps),
-            w.turns.to_string(),
+            if w.sections > 1 {
+                format!("{} × {}", w.sections, w.turns)
+            } else {
+                w.turns.to_string()
+            },
             wire_label(&w.wire.conductor, lk),
             w.wire.strands.to_string(),
             lk.mm_bare(w.wire.conductor.build_mm(), 3),
@@ -235,6 +243,11 @@ fn windings_section(plan: &Plan, look: Look) -> String {
     s += &table(rows, 2, cs);
     if plan.core.shape.name() == "ui" {
         s += "(U-I core: each winding is split over the two legs; turns per layer, layers and build are per half-coil.)\n";
+    }
+    for w in &plan.windings {
+        for note in words::built_notes(plan, w) {
+            s += &format!("{note}\n");
+        }
     }
     s
 }
@@ -362,9 +375,25 @@ fn window_section(plan: &Plan, look: Look) -> String {
                     num(t.ambient_c, 0)
                 ),
             ),
+            (
+                "hottest copper",
+                format!(
+                    "{} °C (class {} insulation: {} °C, IEC 60085)",
+                    num(t.hot_spot_c, 1),
+                    t.insulation_class.letter(),
+                    num(t.insulation_class.limit_c(), 0)
+                ),
+            ),
         ],
         cs,
     );
+    for w in plan
+        .windings
+        .iter()
+        .filter(|w| w.adiabatic_rise_c.is_some())
+    {
+        s += &format!("{}\n", words::adiabatic_note(w));
+    }
     s
 }
 

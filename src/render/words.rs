@@ -43,6 +43,9 @@ pub fn check_detail(c: &Check) -> String {
         CheckFigures::Heating { rise_c, limit_c } => {
             format!("rise {rise_c:.1} °C, limit {limit_c:.0} °C")
         }
+        CheckFigures::CurrentDensity { winding, .. } if winding.is_empty() => {
+            "no wire here is the plan's choice: kept windings and given conductors are judged by heating and the insulation class".to_string()
+        }
         CheckFigures::CurrentDensity {
             highest_a_mm2,
             winding,
@@ -232,5 +235,68 @@ pub fn kept_limit(k: &KeptLimit) -> String {
         } else {
             ""
         }
+    )
+}
+
+/// How a winding is built, when that is more than one plain coil: halves, sections, fixed turns,
+/// a split bobbin's section, a load duty.
+pub fn built_notes(plan: &crate::plan::Plan, w: &crate::plan::WindingPlan) -> Vec<String> {
+    use crate::job::Role;
+    let mut v = Vec::new();
+    let name = &w.name;
+    let (n, k) = (w.turns, w.sections);
+    let wound = if w.bifilar {
+        "wound together (bifilar, strands side by side)"
+    } else {
+        "wound one after the other"
+    };
+    if w.centre_tap && w.role == Role::Primary {
+        v.push(format!(
+            "\"{name}\": push-pull primary, two halves of {n} turns ({} in all) {wound}; each half conducts half of each cycle and carries {:.3} A RMS (I/√2 of {:.3} A)",
+            2 * n,
+            w.section_amps,
+            w.amps
+        ));
+    } else if w.centre_tap {
+        v.push(format!(
+            "\"{name}\": centre-tapped, two halves of {n} turns ({} in all) {wound}, {:.2} V and {:.3} A each",
+            2 * n,
+            w.volts,
+            w.section_amps
+        ));
+    } else if k > 1 {
+        v.push(format!(
+            "\"{name}\": {k} sections of {n} turns {wound}, each {:.2} V and {:.3} A: in series for {:.2} V, in parallel for {:.2} V (sections in parallel must have the same turns)",
+            w.volts,
+            w.section_amps,
+            w.volts * k as f64,
+            w.volts
+        ));
+    }
+    if w.turns_fixed {
+        v.push(format!("\"{name}\": {n} turns fixed by the job"));
+    }
+    if plan.settings.split.is_some() {
+        v.push(format!(
+            "\"{name}\": section {} of the split bobbin ({:.1} mm of traverse)",
+            w.bobbin_section, w.coil.traverse_mm
+        ));
+    }
+    if w.load_duty < 1.0 {
+        v.push(format!(
+            "\"{name}\": load on {:.0} % of the time; heating from the time-averaged loss",
+            w.load_duty * 100.0
+        ));
+    }
+    v
+}
+
+/// The copper's own rise in one on-time, in words.
+pub fn adiabatic_note(w: &crate::plan::WindingPlan) -> String {
+    format!(
+        "\"{}\": in one on-time its copper rises a further {:.1} °C with no time to shed heat (J²·ρ·t / c_v at {:.1} A/mm²)",
+        w.name,
+        w.adiabatic_rise_c.unwrap_or(0.0),
+        w.current_density_a_mm2
     )
 }

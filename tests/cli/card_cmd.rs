@@ -192,6 +192,7 @@ fn buy_list_totals_each_size_with_the_spare() {
                 .map(|w| {
                     w["cut_length_m"].as_f64().unwrap_or(0.0)
                         * w["strands"].as_f64().unwrap_or(0.0)
+                        * w["sections"].as_f64().unwrap_or(0.0)
                         * 1.10
                 })
                 .sum();

@@ -112,6 +112,7 @@ struct Winding {
     regulation_pct: Option<f64>,
     max_volts_full_load: Option<f64>,
     sections: u32,
+    traverse_mm: f64,
     section_amps: f64,
     centre_tap: bool,
     bifilar: bool,

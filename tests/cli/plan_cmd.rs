@@ -164,7 +164,9 @@ fn design_model_figures_recomputed_from_json() {
         );
         let mut fill = 0.0;
         for w in j["windings"].as_array().expect("w") {
-            fill += f(&w["turns"]) * f(&w["strands"]) * f(&w["conductor"]["area_mm2"]);
+            // Every half or section has the turns and strands reported for one.
+            let sections = f(&w["sections"]);
+            fill += f(&w["turns"]) * sections * f(&w["strands"]) * f(&w["conductor"]["area_mm2"]);
             let layers = f(&w["layers"]);
             let tpl = f(&w["turns_per_layer"]);
             assert_eq!(
@@ -172,9 +174,15 @@ fn design_model_figures_recomputed_from_json() {
                 (f(&w["coil_turns"]) / tpl).ceil(),
                 "layers = ceil(N / turns per layer)"
             );
-            // Turns per layer consistent with the reported overall width (pitch 1.05, DESIGN.md).
-            let tr = f(&j["window"]["traverse_mm"]);
-            let per = f(&w["strands"]) * f(&w["conductor"]["overall_width_mm"]) * 1.05;
+            // Turns per layer consistent with the reported overall width (pitch 1.05, DESIGN.md),
+            // on the winding's own traverse (its section's on a split bobbin); bifilar halves or
+            // sections lie side by side, strands in hand.
+            let tr = f(&w["traverse_mm"]);
+            let in_hand = if w["bifilar"] == true { sections } else { 1.0 };
+            if w["conductor"]["system"] == "strip" {
+                continue;
+            }
+            let per = f(&w["strands"]) * in_hand * f(&w["conductor"]["overall_width_mm"]) * 1.05;
             assert_eq!(tpl, (tr / per).floor(), "{}", w["name"]);
         }
         assert_relative_eq!(
@@ -183,7 +191,8 @@ fn design_model_figures_recomputed_from_json() {
             max_relative = 1e-9
         );
         // McLyman's natural-convection relation (from memory): ΔT = 450 (P/A)^0.826.
-        let loss = f(&j["losses"]["core_w"]) + f(&j["losses"]["copper_w"]);
+        // The copper loss at each load's duty (a welder is on a tenth of the time).
+        let loss = f(&j["losses"]["core_w"]) + f(&j["thermal"]["average_copper_w"]);
         assert_relative_eq!(
             f(&j["thermal"]["rise_c"]),
             450.0 * (loss / f(&j["thermal"]["surface_cm2"])).powf(0.826),
