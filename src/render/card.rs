@@ -199,11 +199,85 @@ fn insulation_note(p: &Plan, last: bool) -> String {
     )
 }
 
-fn lead_note(k: usize) -> String {
+/// How to wind and bring out the leads: one coil, two halves (centre tap) or sections with their
+/// link table; for a push-pull primary, what goes where; a fixed count, a split-bobbin section and a
+/// load duty said so.
+fn lead_note(w: &WindingPlan, k: usize) -> String {
+    let n = k + 1;
+    let t = w.turns;
+    let mut s = if w.centre_tap && w.bifilar {
+        format!(
+            "Two halves wound together: take two strands in hand, mark them A and B, and wind {t} turns. Join A's finish to B's start: that joint is the centre tap M{n}. Leads: S{n} = A's start, M{n} = the joint, F{n} = B's finish."
+        )
+    } else if w.centre_tap {
+        format!(
+            "Two halves of {t} turns, one after the other in the same direction: at turn {t} bring out a loop, the centre tap M{n}, and wind on to turn {}. Leads: start S{n}, centre tap M{n}, finish F{n}.",
+            2 * t
+        )
+    } else if w.sections > 1 {
+        sections_note(w, n)
+    } else {
+        format!(
+            "Leads: start S{n} (mark it before the first turn), finish F{n}; same winding direction as the others."
+        )
+    };
+    if w.centre_tap && w.role == Role::Primary {
+        s += &format!(
+            " Push-pull: M{n} goes to the supply's positive, S{n} and F{n} to the two switches; each half carries {} A RMS.",
+            sig3(w.section_amps)
+        );
+    }
+    if w.turns_fixed {
+        s += &format!(" {t} turns are fixed by the job.");
+    }
+    if w.load_duty < 1.0 {
+        s += &format!(
+            " Rated for its load on {} % of the time.",
+            num(w.load_duty * 100.0, 0)
+        );
+    }
+    s
+}
+
+/// Sections with their own leads, and the links for series and parallel.
+fn sections_note(w: &WindingPlan, n: usize) -> String {
+    let k = w.sections as usize;
+    let letters: Vec<char> = ('a'..='z').take(k).collect();
+    let leads: Vec<String> = letters.iter().map(|l| format!("S{n}{l}/F{n}{l}")).collect();
+    let series: Vec<String> = letters
+        .windows(2)
+        .map(|p| format!("F{n}{} to S{n}{}", p[0], p[1]))
+        .collect();
+    let starts: Vec<String> = letters.iter().map(|l| format!("S{n}{l}")).collect();
+    let finishes: Vec<String> = letters.iter().map(|l| format!("F{n}{l}")).collect();
     format!(
-        "Leads: start S{n} (mark it before the first turn), finish F{n}; same winding direction as the others.",
-        n = k + 1
+        "{k} sections of {} turns, {}, each with its own leads ({}). Links: in series for {} V, join {} and use S{n}{} and F{n}{}; in parallel for {} V, join {} together and {} together and use the two joints. Sections in parallel must have the same turns: check each section's resistance before joining them.",
+        w.turns,
+        if w.bifilar {
+            "wound together (strands in hand)"
+        } else {
+            "one after the other in the same direction"
+        },
+        leads.join(", "),
+        num(w.volts * k as f64, 1),
+        series.join(", "),
+        letters[0],
+        letters[k - 1],
+        num(w.volts, 1),
+        starts.join(", "),
+        finishes.join(", ")
     )
+}
+
+/// The turns as the card shows them: per half or section when there are several.
+fn turns_text(w: &WindingPlan) -> String {
+    if w.centre_tap {
+        format!("{} + {}", w.turns, w.turns)
+    } else if w.sections > 1 {
+        format!("{} × {}", w.sections, w.turns)
+    } else {
+        w.turns.to_string()
+    }
 }
 
 /// The bench checks, as lines of text.
@@ -299,6 +373,11 @@ fn tap_text(w: &WindingPlan) -> Option<String> {
             .map(|t| format!("{} V: bring out a loop at turn {}", num(t.volts, 1), t.turn))
             .collect::<Vec<_>>()
             .join("; ")
+            + if w.sections > 1 {
+                " (on each section)"
+            } else {
+                ""
+            }
     })
 }
 
@@ -378,7 +457,7 @@ fn text_winding(
         volts_amps(p, w)
     ));
     s += "\n";
-    s += &bold(&format!("    TURNS {}", w.turns));
+    s += &bold(&format!("    TURNS {}", turns_text(w)));
     if w.kept {
         s += "   (counted by the test winding)\n";
     } else {
@@ -403,7 +482,7 @@ fn text_winding(
         if let Some(t) = tap_text(w) {
             s += &wrap(&format!("TAPS: {t}"), width, "    ", "      ");
         }
-        s += &wrap(&lead_note(k), width, "    ", "    ");
+        s += &wrap(&lead_note(w, k), width, "    ", "    ");
     }
     s += &wrap(&insulation_note(p, last), width, "    ", "    ");
     s
@@ -420,10 +499,15 @@ fn text_cut_and_checks(p: &Plan, o: &CardOptions, bold: &dyn Fn(&str) -> String)
     for w in p.windings.iter().filter(|w| !w.kept) {
         s += &wrap(
             &format!(
-                "\"{}\": cut {} m per strand x {} ({} turns x {} mm mean turn + leads), {} g copper",
+                "\"{}\": cut {} m per strand x {}{} ({} turns x {} mm mean turn + leads), {} g copper",
                 w.name,
                 num(w.cut_length_m, 2),
                 w.wire.strands,
+                if w.sections > 1 {
+                    format!(" x {} (one per half or section)", w.sections)
+                } else {
+                    String::new()
+                },
                 w.turns,
                 num(w.coil.mean_turn_mm, 0),
                 num(w.copper_mass_g, 0)
@@ -475,7 +559,9 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
         let _ = writeln!(
             s,
             "- **Turns: {}** — {} per layer × {} layers",
-            w.turns, w.coil.turns_per_layer, w.coil.layers
+            turns_text(w),
+            w.coil.turns_per_layer,
+            w.coil.layers
         );
         let _ = writeln!(s, "- Wire: {}", wire_text(w));
         if let Some(h) = half_coil_note(p, w) {
@@ -507,7 +593,7 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
             if let Some(t) = tap_text(w) {
                 let _ = writeln!(s, "- **Taps:** {t}");
             }
-            let _ = writeln!(s, "- {}", lead_note(k));
+            let _ = writeln!(s, "- {}", lead_note(w, k));
         }
         let _ = writeln!(s, "- {}\n", insulation_note(p, k + 1 == n));
     }
@@ -662,40 +748,48 @@ fn xsec_steel_and_bobbin(o: &mut String, p: &Plan, f: &Frame, margin: f64, tongu
     }
 }
 
-/// Each winding where the layout put it, the insulation between, its layer lines and its number;
-/// returns where the last winding ends.
+/// Each winding where the layout put it — its section's band of the traverse on a split bobbin —
+/// the insulation between, its layer lines and its number; returns where the outermost ends.
 fn xsec_windings(o: &mut String, p: &Plan, f: &Frame) -> f64 {
     let tube = f.x0 + p.settings.bobbin_wall_mm;
-    let (coil_top, traverse) = (f.coil_top, f.traverse);
-    let mut x = tube;
+    let mut end = [tube, tube];
+    let mut used = [false, false];
     for (k, w) in p.windings.iter().enumerate() {
+        let slot = if w.coil.section == 2 { 1 } else { 0 };
+        let (top, band) = if p.settings.split.is_some() {
+            (f.coil_top + w.coil.offset_mm, w.coil.traverse_mm.max(0.0))
+        } else {
+            (f.coil_top, f.traverse)
+        };
         let start = tube + w.coil.start_mm;
-        if k > 0 {
+        if used[slot] {
+            let x = end[slot];
             let gap = start - x;
             let _ = write!(
                 o,
-                r##"<rect class="insulation" x="{x:.2}" y="{coil_top:.2}" width="{gap:.2}" height="{traverse:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
+                r##"<rect class="insulation" x="{x:.2}" y="{top:.2}" width="{gap:.2}" height="{band:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
             );
         }
+        used[slot] = true;
         let b = w.coil.build_mm.max(0.0);
         let (pat, _) = PATTERNS[k % PATTERNS.len()];
         let _ = write!(
             o,
-            r##"<rect class="winding" x="{start:.2}" y="{coil_top:.2}" width="{b:.2}" height="{traverse:.2}" fill="url(#{pat})" stroke="#000" stroke-width="0.3"/>"##
+            r##"<rect class="winding" x="{start:.2}" y="{top:.2}" width="{b:.2}" height="{band:.2}" fill="url(#{pat})" stroke="#000" stroke-width="0.3"/>"##
         );
         if w.coil.layers < 200 {
             for l in w.coil.layer_boundaries_mm() {
                 let lx = tube + l;
                 let _ = write!(
                     o,
-                    r##"<line x1="{lx:.2}" y1="{coil_top:.2}" x2="{lx:.2}" y2="{:.2}" stroke="#000" stroke-width="0.12"/>"##,
-                    coil_top + traverse
+                    r##"<line x1="{lx:.2}" y1="{top:.2}" x2="{lx:.2}" y2="{:.2}" stroke="#000" stroke-width="0.12"/>"##,
+                    top + band
                 );
             }
         }
         // Label: number in a white box at the middle.
         let cx = start + b / 2.0;
-        let cy = coil_top + 4.0 + (k as f64 * 5.0) % (traverse - 6.0).max(1.0);
+        let cy = top + 4.0 + (k as f64 * 5.0) % (band - 6.0).max(1.0);
         let _ = write!(
             o,
             r##"<rect x="{:.2}" y="{:.2}" width="4" height="3.6" fill="white" stroke="#000" stroke-width="0.15"/><text x="{cx:.2}" y="{:.2}" text-anchor="middle" font-weight="bold">{}</text>"##,
@@ -704,9 +798,42 @@ fn xsec_windings(o: &mut String, p: &Plan, f: &Frame) -> f64 {
             cy,
             k + 1
         );
-        x = start + b;
+        end[slot] = start + b;
     }
-    x
+    if let Some(split) = p.settings.split {
+        xsec_split_parts(o, p, f, tube, end, split);
+        return end[0].max(end[1]) + p.settings.outer_mm;
+    }
+    end[0]
+}
+
+/// A split bobbin's divider and each section's outer wrap.
+fn xsec_split_parts(
+    o: &mut String,
+    p: &Plan,
+    f: &Frame,
+    tube: f64,
+    end: [f64; 2],
+    split: crate::layout::Split,
+) {
+    let (first, _) = crate::layout::section_traverse(f.traverse, Some(split), 1);
+    let y = f.coil_top + first;
+    let w = (end[0].max(end[1]) + p.settings.outer_mm - tube).max(0.5);
+    let d = split.divider_mm;
+    let _ = write!(
+        o,
+        r##"<rect class="divider" x="{tube:.2}" y="{y:.2}" width="{w:.2}" height="{d:.2}" fill="#c8b38a" stroke="#5a4a2a" stroke-width="0.2"/>"##
+    );
+    let outer = p.settings.outer_mm;
+    for sec in 1..=2u32 {
+        let (band, offset) = crate::layout::section_traverse(f.traverse, Some(split), sec);
+        let x = end[(sec - 1) as usize];
+        let top = f.coil_top + offset;
+        let _ = write!(
+            o,
+            r##"<rect class="insulation" x="{x:.2}" y="{top:.2}" width="{outer:.2}" height="{band:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
+        );
+    }
 }
 
 /// The outer wrap, the clearance (or the overflow past the window) and the outer leg; returns the
@@ -714,12 +841,17 @@ fn xsec_windings(o: &mut String, p: &Plan, f: &Frame) -> f64 {
 fn xsec_outer(o: &mut String, p: &Plan, f: &Frame, x: f64) -> f64 {
     let (coil_top, traverse, y0) = (f.coil_top, f.traverse, f.y0);
     let h = p.core.window_height_mm;
-    let outer = p.settings.outer_mm;
-    let _ = write!(
-        o,
-        r##"<rect class="insulation" x="{x:.2}" y="{coil_top:.2}" width="{outer:.2}" height="{traverse:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
-    );
-    let x = x + outer;
+    let x = if p.settings.split.is_some() {
+        // Each section's wrap is drawn with it.
+        x
+    } else {
+        let outer = p.settings.outer_mm;
+        let _ = write!(
+            o,
+            r##"<rect class="insulation" x="{x:.2}" y="{coil_top:.2}" width="{outer:.2}" height="{traverse:.2}" fill="#fff7b0" stroke="#8a7a00" stroke-width="0.1"/>"##
+        );
+        x + outer
+    };
     let end = f.x0 + f.avail_w;
     if x < end {
         let tx = (x + end) / 2.0 + 0.8;
@@ -885,7 +1017,9 @@ fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool) -> String {
         let _ = write!(
             s,
             "<div><span class=\"turns\">{} turns</span>{legs} &#160; <span class=\"tpl\">{} per layer &#215; {} layers</span></div>",
-            w.turns, w.coil.turns_per_layer, w.coil.layers
+            esc(&turns_text(w)),
+            w.coil.turns_per_layer,
+            w.coil.layers
         );
         let _ = write!(s, "<div>{}</div>", esc(&wire_text(w)));
         s += "<div class=\"row\"><table class=\"cpt\"><tr><th>layer</th>";
@@ -904,7 +1038,7 @@ fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool) -> String {
         let _ = write!(
             s,
             "<div class=\"small\">{} {}</div>",
-            esc(&lead_note(k)),
+            esc(&lead_note(w, k)),
             esc(&insulation_note(p, last))
         );
     }
