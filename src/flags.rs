@@ -120,8 +120,8 @@ pub struct QuickJob {
     pub max_rise_c: Option<f64>,
     /// `--ambient`, °C.
     pub ambient_c: Option<f64>,
-    /// `--system awg` (else metric).
-    pub awg: bool,
+    /// `--system`.
+    pub system: System,
     /// `--va`: the outputs share it equally (100 VA when not given).
     pub va: Option<f64>,
 }
@@ -200,7 +200,7 @@ pub fn quick_job(q: &QuickJob) -> Result<Job> {
         ambient_c: ambient,
         max_rise_c: max_rise,
         insulation_class: crate::job::InsulationClass::B,
-        system: if q.awg { System::Awg } else { System::Metric },
+        system: q.system,
         grade: Grade::Two,
         max_strand_mm: 2.0,
         layout: LayoutSettings::default(),
@@ -256,7 +256,7 @@ mod tests {
             flux_t: None,
             max_rise_c: None,
             ambient_c: None,
-            awg: false,
+            system: System::Metric,
             va: Some(300.0),
         }
     }

@@ -181,6 +181,17 @@ impl ShapeArg {
 enum SystemArg {
     Metric,
     Awg,
+    Swg,
+}
+
+impl SystemArg {
+    fn system(self) -> crate::wire::System {
+        match self {
+            SystemArg::Metric => crate::wire::System::Metric,
+            SystemArg::Awg => crate::wire::System::Awg,
+            SystemArg::Swg => crate::wire::System::Swg,
+        }
+    }
 }
 
 /// What every command gets besides its own arguments.

@@ -98,7 +98,7 @@ fn job_of(a: &Args) -> Result<crate::job::Job> {
             flux_t: a.flux,
             max_rise_c: a.max_rise,
             ambient_c: a.ambient,
-            awg: a.system == SystemArg::Awg,
+            system: a.system.system(),
             va: a.va,
         }),
         _ => Err(Error::bad_value(

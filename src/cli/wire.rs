@@ -25,7 +25,7 @@ pub(super) struct Args {
     /// Thickest single strand before going to parallel strands, mm
     #[arg(long, default_value_t = 2.0)]
     max_strand: f64,
-    /// Enamel grade: 1 (AWG single build) or 2 (AWG heavy build)
+    /// Enamel grade: 1 (grade 1; AWG single build) or 2 (grade 2; AWG heavy build)
     #[arg(long, default_value_t = 2)]
     grade: u8,
     /// Output format
@@ -35,8 +35,7 @@ pub(super) struct Args {
 
 pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
     let system = match a.system {
-        Some(SystemArg::Awg) => System::Awg,
-        Some(SystemArg::Metric) => System::Metric,
+        Some(s) => s.system(),
         None if ctx.look.units == Units::Imperial => System::Awg,
         None => System::Metric,
     };

@@ -48,10 +48,10 @@ fn table_text(r: &WireReport, look: &Look) -> String {
     };
     let imperial = look.units == Units::Imperial;
     let mut t = vec![vec![
-        if *system == crate::wire::System::Awg {
-            "AWG".to_string()
-        } else {
-            "nominal mm".to_string()
+        match system {
+            crate::wire::System::Awg => "AWG".to_string(),
+            crate::wire::System::Swg => "SWG".to_string(),
+            crate::wire::System::Metric => "nominal mm".to_string(),
         },
         "bare mm".into(),
         format!("overall mm ({})", grade.label(*system)),

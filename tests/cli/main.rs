@@ -14,4 +14,5 @@ mod probe_cmd;
 mod rate_cmd;
 mod readme;
 mod shelf_cmd;
+mod windings;
 mod wire_cmd;
