@@ -78,12 +78,7 @@ impl Rater {
     /// A rater for a job; its output currents set the share between outputs.
     pub fn new(job: &Job) -> Rater {
         let base_amps: Vec<f64> = job.windings.iter().map(|w| w.amps).collect();
-        let base_va = job
-            .windings
-            .iter()
-            .filter(|w| w.role == Role::Secondary)
-            .map(|w| w.volts * w.amps)
-            .sum::<f64>();
+        let base_va = crate::plan::output_va(job);
         Rater {
             job: job.clone(),
             base_amps,
@@ -222,14 +217,7 @@ pub fn job_at_capacity(job: &Job, c: &Capacity) -> Job {
     job_at(job, &base_amps, base_va, c.max_va, &js)
 }
 
-/// The total output VA of a job.
-fn output_va(job: &Job) -> f64 {
-    job.windings
-        .iter()
-        .filter(|w| w.role == Role::Secondary)
-        .map(|w| w.volts * w.amps)
-        .sum()
-}
+use crate::plan::output_va;
 
 /// One wire at capacity.
 #[derive(Debug, Clone, PartialEq, Serialize)]

@@ -623,6 +623,28 @@ fn hot_per_turn(c: &Ctx, st: &State, lay: &Layout) -> Vec<f64> {
         .collect()
 }
 
+/// The output VA a job asks for: every half or section of every output at its volts and amps; an
+/// output with fixed turns and no volts given counts at the full-load volts its plan reaches.
+pub fn output_va(job: &Job) -> f64 {
+    let needs_plan = job
+        .windings
+        .iter()
+        .any(|w| w.role == Role::Secondary && !w.volts_given);
+    let planned = needs_plan.then(|| plan(job));
+    job.windings
+        .iter()
+        .enumerate()
+        .filter(|(_, w)| w.role == Role::Secondary)
+        .map(|(i, w)| {
+            let volts = match &planned {
+                Some(p) if !w.volts_given => p.windings[i].volts_full_load.max(0.0),
+                _ => w.volts,
+            };
+            w.sections.max(1) as f64 * volts * w.amps
+        })
+        .sum()
+}
+
 /// An output's full-load volts: (N_s/N_p)·(V_p − I_p·R_p) − I_s·R_s.
 pub fn full_load_volts(
     n_s: f64,

@@ -8,7 +8,7 @@
 use crate::capacity::{
     capacity, flux_sweep, options, scan, usable_flux_range, Capacity, Improvement,
 };
-use crate::job::{Job, Role};
+use crate::job::Job;
 
 /// What a person asked of `rate`.
 #[derive(Debug, Clone, PartialEq)]
@@ -90,12 +90,7 @@ pub fn rate(job: &Job, req: &RateRequest) -> Rating {
     let mut job = job.clone();
     job.load_duty = req.duty;
     let cap = if req.scan { scan(&job) } else { capacity(&job) };
-    let base_va: f64 = job
-        .windings
-        .iter()
-        .filter(|w| w.role == Role::Secondary)
-        .map(|w| w.volts * w.amps)
-        .sum();
+    let base_va = crate::plan::output_va(&job);
     let target = req.va.or(req.target_from_job.then_some(base_va));
     let verdict = target.map(|t| RateVerdict {
         ok: t <= cap.max_va * (1.0 + 1e-12),

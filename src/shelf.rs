@@ -14,7 +14,7 @@
 
 use crate::error::{Error, Result};
 use crate::geometry::{default_leg_yoke, CoreDims, Shape};
-use crate::job::{Job, Role};
+use crate::job::Job;
 use crate::losses::loss_for_rise_w;
 use crate::magnetics::steel_info;
 use crate::plan::plan;
@@ -687,11 +687,7 @@ pub fn rank(
 
 /// The total output VA of a job (for messages).
 pub fn job_va(job: &Job) -> f64 {
-    job.windings
-        .iter()
-        .filter(|w| w.role == Role::Secondary)
-        .map(|w| w.volts * w.amps)
-        .sum()
+    crate::plan::output_va(job)
 }
 
 /// How `shelf list` orders the cores.
