@@ -8,6 +8,7 @@
 pub mod capacity;
 pub mod cli;
 pub mod data;
+pub mod diagnose;
 pub mod error;
 pub mod flags;
 pub mod geometry;

@@ -16,6 +16,7 @@ mod card;
 mod completions;
 mod core;
 mod demo;
+mod diagnose;
 mod manpage;
 mod plan;
 mod probe;
@@ -108,6 +109,11 @@ enum Command {
     /// Print the manual page (roff)
     #[command(after_help = "Example:\n  ironwind manpage > ~/.local/share/man/man1/ironwind.1")]
     Manpage,
+    /// After winding: what the meter's readings say (turns, wire, a shorted turn, a reversed half)
+    #[command(
+        after_help = "Example:\n  ironwind diagnose examples/garage_charger.toml examples/measured/garage_charger.toml\n  ironwind diagnose job.toml measured.toml --format json\n  ironwind diagnose job.toml measured.toml --record 3   # keep the readings with shelf core 3"
+    )]
+    Diagnose(diagnose::Args),
     /// Plan the bundled example job end to end (no files needed)
     #[command(after_help = "Example:\n  ironwind demo\n  ironwind demo --format json")]
     Demo(demo::Args),
@@ -317,6 +323,7 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         Command::Completions(a) => completions::run(out, a, Cli::command()),
         Command::Manpage => manpage::run(out, Cli::command()),
         Command::Demo(a) => demo::run(out, a, &ctx),
+        Command::Diagnose(a) => diagnose::run(out, a, &ctx),
     }
 }
 

@@ -54,6 +54,25 @@ pub fn write(
     out.write_all(text.as_bytes())
 }
 
+/// A table whose long cells are wrapped so the whole fits the look's width.
+pub fn wrap_table(mut rows: Vec<Vec<String>>, look: &Look) -> String {
+    let cols = rows.first().map(Vec::len).unwrap_or(0);
+    if cols == 0 {
+        return String::new();
+    }
+    // Columns but the last two keep their widths; the last two share what is left.
+    let fixed: usize = (0..cols.saturating_sub(2))
+        .map(|c| rows.iter().map(|r| r[c].chars().count()).max().unwrap_or(0) + 3)
+        .sum();
+    let room = look.width.saturating_sub(fixed + 7).max(20) / 2;
+    for r in rows.iter_mut() {
+        for cell in r.iter_mut().skip(cols.saturating_sub(2)) {
+            *cell = wrap(cell, room, "", "").trim_end().to_string();
+        }
+    }
+    super::table(rows, 99, look.charset)
+}
+
 /// Wraps `text` to `width` columns with `indent` on continuation lines.
 pub fn wrap(text: &str, width: usize, first: &str, indent: &str) -> String {
     let mut out = String::new();
@@ -303,6 +322,10 @@ fn bench_lines(p: &Plan) -> Vec<String> {
             sig3(i0)
         ));
     }
+    v.push(
+        "After winding, measure these: the primary's volts, each output's no-load volts, each winding's ohms and the room temperature; write them in a measurement file (examples/measured/) and run `ironwind diagnose` to learn what went wrong, if anything."
+            .to_string(),
+    );
     v
 }
 
@@ -1090,6 +1113,7 @@ fn html_cut_and_checks(p: &Plan, o: &CardOptions) -> String {
     for l in power_up_lines() {
         let _ = write!(s, "<li>{}</li>", esc(l));
     }
+    s += "<li>After winding: the primary's volts, each output's no-load volts, each winding's ohms and the room temperature into a measurement file, then <code>ironwind diagnose</code>.</li>";
     s += "</ul></div></div>";
     s
 }

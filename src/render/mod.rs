@@ -8,6 +8,7 @@
 pub mod card;
 pub mod core;
 pub mod csv;
+pub mod diagnose;
 pub mod json;
 pub mod plan;
 pub mod probe;

@@ -152,6 +152,37 @@ const CASES: &[(&str, &[&str])] = &[
             "json",
         ],
     ),
+    (
+        "diagnose.txt",
+        &["diagnose", GARAGE, "examples/measured/garage_charger.toml"],
+    ),
+    (
+        "diagnose.json",
+        &[
+            "diagnose",
+            GARAGE,
+            "examples/measured/garage_charger.toml",
+            "--format",
+            "json",
+        ],
+    ),
+    (
+        "plan_pushpull.txt",
+        &["plan", "examples/pushpull_inverter_24v.toml"],
+    ),
+    (
+        "card_dual.txt",
+        &["card", "examples/dual_primary_bench_supply.toml"],
+    ),
+    (
+        "plan_welder.json",
+        &[
+            "plan",
+            "examples/spot_welder_donor.toml",
+            "--format",
+            "json",
+        ],
+    ),
     ("shelf_list.txt", &["shelf", "--shelf", SHELF, "list"]),
     (
         "shelf_list.json",

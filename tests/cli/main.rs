@@ -6,6 +6,7 @@ mod contract;
 mod core_cmd;
 mod corpus;
 mod demo;
+mod diagnose;
 mod golden;
 mod input_errors;
 mod look;
