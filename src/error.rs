@@ -64,7 +64,7 @@ impl Error {
         Error::BadValue {
             origin: origin.into(),
             field: field.into(),
-            value: one_line(&value.to_string()),
+            value: short_value(&value.to_string()),
             accepted: accepted.into(),
         }
     }
@@ -87,17 +87,42 @@ impl Error {
     }
 }
 
-/// Folds any line breaks and control characters so a message stays on one line, and cuts very
-/// long values.
+/// Folds line breaks, control characters and the invisible ones that reorder or hide text
+/// (bidirectional overrides, zero-width) so a message stays on one line and shows what it says.
+/// A message is never cut: the accepted values at its end are what a person needs; only an
+/// absurdly long one (a whole file pasted as a value) is held to `MAX_MESSAGE` characters.
 pub fn one_line(s: &str) -> String {
-    let mut out: String = s
+    let out: String = s
         .chars()
-        .map(|c| if c.is_control() { ' ' } else { c })
+        .map(|c| if unsafe_char(c) { ' ' } else { c })
         .collect();
-    if out.chars().count() > 120 {
-        out = out.chars().take(117).collect::<String>() + "...";
+    if out.chars().count() > MAX_MESSAGE {
+        return out.chars().take(MAX_MESSAGE - 3).collect::<String>() + "...";
     }
     out
+}
+
+/// The longest message printed, characters.
+pub const MAX_MESSAGE: usize = 4000;
+
+/// A value as given, folded to one line and cut past 200 characters (the rest of the message, the
+/// field and what is accepted, is never cut).
+pub fn short_value(s: &str) -> String {
+    let out = one_line(s);
+    if out.chars().count() > 200 {
+        return out.chars().take(197).collect::<String>() + "...";
+    }
+    out
+}
+
+/// A character that must not reach a terminal as itself: controls, bidirectional embeddings and
+/// overrides, and zero-width characters.
+pub fn unsafe_char(c: char) -> bool {
+    c.is_control()
+        || matches!(
+            c,
+            '\u{200B}'..='\u{200F}' | '\u{202A}'..='\u{202E}' | '\u{2060}'..='\u{2064}' | '\u{2066}'..='\u{2069}' | '\u{FEFF}'
+        )
 }
 
 /// Short form for results in this crate.
