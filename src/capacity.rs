@@ -328,7 +328,12 @@ pub fn carries(job: &Job, va: f64) -> bool {
 /// Finds the capacity by bracketing and bisection.
 pub fn capacity(job: &Job) -> Capacity {
     let mut r = Rater::new(job);
-    let base = if r.base_va > 0.0 { r.base_va } else { 1.0 };
+    // A floor on the starting VA keeps the bracketing to a few dozen doublings whatever the job.
+    let base = if r.base_va > 0.0 {
+        r.base_va.max(1e-3)
+    } else {
+        1.0
+    };
     // Bracket.
     let mut lo_va = 0.0;
     let mut lo_trial: Option<Trial> = None;

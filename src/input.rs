@@ -20,6 +20,13 @@ pub fn read_text(path: &Path) -> Result<String> {
     if meta.is_dir() {
         return Err(Error::bad_input(&name, "is a directory; expected a file"));
     }
+    if !meta.is_file() {
+        // A FIFO would block the read for ever; a device is not a text file.
+        return Err(Error::bad_input(
+            &name,
+            "is not a regular file (a pipe or a device); expected a text file",
+        ));
+    }
     let file = std::fs::File::open(path)
         .map_err(|e| Error::bad_input(&name, format!("cannot read: {e}")))?;
     let mut bytes = Vec::new();

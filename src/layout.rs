@@ -151,7 +151,8 @@ impl CoilLayout {
     /// Fills the running turn count at the end of each layer (left empty while a plan iterates).
     pub fn fill_checkpoints(&mut self) {
         let (n, tpl) = (self.coil_turns, self.turns_per_layer);
-        self.checkpoints = if tpl == 0 {
+        // A coil of more layers than anyone winds (a plan refused as bad input) keeps none.
+        self.checkpoints = if tpl == 0 || self.layers > 100_000 {
             Vec::new()
         } else {
             (1..=self.layers).map(|l| (l * tpl).min(n)).collect()

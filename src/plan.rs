@@ -1341,6 +1341,18 @@ impl Job {
 /// is bad input (the wire or the strands chosen for it), named by the winding.
 pub fn check_windable(plan: &Plan, origin: &str) -> Result<()> {
     for w in &plan.windings {
+        let total = w.turns as u64 * w.sections as u64;
+        if total > crate::job::MAX_WINDING_TURNS as u64 {
+            return Err(Error::bad_value(
+                origin,
+                format!("[[winding]] \"{}\"", w.name),
+                format!("{total} turns"),
+                format!(
+                    "a winding of more than {} turns is not one a person winds: the volts are too high for the core at this frequency (raise the frequency or the core's area, or lower the volts)",
+                    crate::job::MAX_WINDING_TURNS
+                ),
+            ));
+        }
         if w.coil.turns_per_layer == 0 {
             return Err(Error::bad_value(
                 origin,

@@ -268,14 +268,14 @@ pub fn read_sweep(origin: &str, bytes: &[u8]) -> Result<Vec<SweepPoint>> {
         let volts = num(
             0,
             "volts",
-            |v| v > 0.0 && v <= 100_000.0,
-            "must be a number > 0 V and ≤ 100000 V",
+            |v| (0.001..=100_000.0).contains(&v),
+            "must be a number ≥ 0.001 V and ≤ 100000 V",
         )?;
         let amps = num(
             1,
             "amps",
-            |v| (0.0..=10_000.0).contains(&v),
-            "must be a number ≥ 0 A and ≤ 10000 A",
+            |v| v == 0.0 || (1e-9..=10_000.0).contains(&v),
+            "must be 0, or a number ≥ 1e-9 A and ≤ 10000 A",
         )?;
         points.push(SweepPoint { volts, amps });
         if points.len() > MAX_SWEEP_ROWS {

@@ -120,13 +120,22 @@ pub struct Shelf {
 impl Shelf {
     /// The next free id.
     pub fn next_id(&self) -> u64 {
-        self.entries
+        self.ids_from(1).unwrap_or(u64::MAX)
+    }
+
+    /// The first of `count` fresh ids, or None when the ids would pass u64::MAX (a row with an id at
+    /// the edge: ids are never wrapped into duplicates).
+    pub fn ids_from(&self, count: u64) -> Option<u64> {
+        let top = self
+            .entries
             .iter()
             .map(|(e, _)| e.id)
             .chain(self.bad.iter().filter_map(|b| b.id))
             .max()
-            .unwrap_or(0)
-            + 1
+            .unwrap_or(0);
+        let first = top.checked_add(1)?;
+        first.checked_add(count.saturating_sub(1))?;
+        Some(first)
     }
 }
 
@@ -186,8 +195,10 @@ fn text_cell(
     if t.chars().count() > max {
         return Err(format!("{field}: longer than {max} characters"));
     }
-    if t.chars().any(|c| c.is_control()) {
-        return Err(format!("{field}: has control characters"));
+    if t.chars().any(crate::error::unsafe_char) {
+        return Err(format!(
+            "{field}: has control, bidirectional or zero-width characters"
+        ));
     }
     Ok(t.to_string())
 }

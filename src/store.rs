@@ -37,8 +37,32 @@ pub fn locate(flag: Option<&Path>) -> Result<PathBuf> {
     Ok(base.join("ironwind").join("shelf.csv"))
 }
 
+/// Where a file really is: a symbolic link's target (so a write goes through the link, never
+/// replacing it), refusing anything but a regular file (a FIFO would block, a device or a directory
+/// is not a shelf or a card). A missing file is fine: it will be created.
+pub fn regular_target(path: &Path) -> Result<PathBuf> {
+    let name = path.display().to_string();
+    let target = match fs::symlink_metadata(path) {
+        Ok(m) if m.file_type().is_symlink() => fs::canonicalize(path).map_err(|e| {
+            Error::bad_input(
+                &name,
+                format!("a link to nothing usable ({e}); give the file itself"),
+            )
+        })?,
+        _ => path.to_path_buf(),
+    };
+    match fs::metadata(&target) {
+        Ok(m) if !m.is_file() => Err(Error::bad_input(
+            &name,
+            "is not a regular file (a directory, a pipe or a device); give a file",
+        )),
+        _ => Ok(target),
+    }
+}
+
 /// Reads the shelf; a missing file is an empty shelf.
 pub fn read(path: &Path) -> Result<Shelf> {
+    let path = &regular_target(path)?;
     let name = path.display().to_string();
     let mut f = match File::open(path) {
         Ok(f) => f,
@@ -89,6 +113,8 @@ fn dir_of(path: &Path) -> PathBuf {
 /// Changes the shelf under the lock: `change` gets the shelf as read and returns the new entries
 /// (or an error, and nothing is written) plus a value for the caller.
 pub fn update<T>(path: &Path, change: impl FnOnce(&Shelf) -> Result<(Vec<Entry>, T)>) -> Result<T> {
+    let target = regular_target(path)?;
+    let path = target.as_path();
     let name = path.display().to_string();
     let dir = dir_of(path);
     if !dir.exists() {
@@ -122,9 +148,22 @@ pub fn update<T>(path: &Path, change: impl FnOnce(&Shelf) -> Result<(Vec<Entry>,
     Ok(value)
 }
 
+/// Writes an output file (a card, a chart) whole: through a link to its target, never onto a
+/// non-regular file, via a temporary file renamed over it, keeping the old file's mode. A failure
+/// leaves the old file as it was.
+pub fn write_whole(path: &Path, bytes: &[u8]) -> Result<()> {
+    let target = regular_target(path)?;
+    write_file(&target, bytes, false)
+        .map_err(|e| Error::io(path.display().to_string(), "cannot write", &e))
+}
+
 /// Writes a file whole: temporary file in the same directory, flush, sync, rename, sync directory.
 pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<()> {
     let name = path.display().to_string();
+    write_file(path, bytes, true).map_err(|e| Error::io(&name, "cannot write the shelf", &e))
+}
+
+fn write_file(path: &Path, bytes: &[u8], clean: bool) -> std::io::Result<()> {
     let dir = dir_of(path);
     let base = path
         .file_name()
@@ -135,12 +174,16 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<()> {
         .map(|d| d.subsec_nanos())
         .unwrap_or(0);
     let tmp = dir.join(format!(".{base}.tmp-{}-{nanos}", std::process::id()));
+    let mode = fs::metadata(path).ok().map(|m| m.permissions());
     let result = (|| -> std::io::Result<()> {
         let mut f = OpenOptions::new().create_new(true).write(true).open(&tmp)?;
         f.write_all(bytes)?;
         f.flush()?;
         f.sync_all()?;
         drop(f);
+        if let Some(m) = mode {
+            fs::set_permissions(&tmp, m)?;
+        }
         fs::rename(&tmp, path)?;
         if let Ok(d) = File::open(&dir) {
             let _ = d.sync_all();
@@ -149,7 +192,10 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<()> {
     })();
     if let Err(e) = result {
         let _ = fs::remove_file(&tmp);
-        return Err(Error::io(&name, "cannot write the shelf", &e));
+        return Err(e);
+    }
+    if !clean {
+        return Ok(());
     }
     // Temporary files left by a process killed mid-write (we hold the lock: none is in use).
     if let Ok(rd) = fs::read_dir(&dir) {

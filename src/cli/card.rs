@@ -36,6 +36,9 @@ pub(super) struct Args {
 
 pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
     let spare = flag_in("--spare", a.spare, 0.0, true, 100.0, "%")?;
+    if let Some(o) = &a.output {
+        super::not_an_input(o, &[&a.job], "--output")?;
+    }
     let job = load_job(&a.job)?;
     let p = plan(&job);
     check_windable(&p, &a.job.display().to_string())?;

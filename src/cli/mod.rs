@@ -227,7 +227,7 @@ pub fn main() -> i32 {
         Ok(code) => code,
         Err(Error::Io { path, reason, .. }) if path == "stdout" && reason == BROKEN_PIPE => 0,
         Err(e) => {
-            eprintln!("error: {e}");
+            say(&format!("error: {e}"));
             e.exit_code()
         }
     }
@@ -283,7 +283,7 @@ fn clap_error(e: &clap::Error) -> i32 {
                 .collect();
             let joined = parts.join("; ");
             let joined = joined.strip_prefix("error: ").unwrap_or(&joined);
-            eprintln!("error: command line: {joined} (see --help)");
+            say(&format!("error: command line: {joined} (see --help)"));
             2
         }
     }
@@ -342,10 +342,29 @@ fn out_err(e: std::io::Error) -> Error {
     Error::io("stdout", "cannot write", &e)
 }
 
-/// Writes a whole file (charts, cards); failures are exit 1.
+/// Writes a whole file (charts, cards) atomically; failures are exit 1.
 fn write_file(path: &Path, bytes: &[u8]) -> Result<()> {
-    std::fs::write(path, bytes)
-        .map_err(|e| Error::io(path.display().to_string(), "cannot write", &e))
+    crate::store::write_whole(path, bytes)
+}
+
+/// Refuses to write an output over one of the command's own inputs.
+fn not_an_input(output: &Path, inputs: &[&Path], flag: &str) -> Result<()> {
+    let same = |a: &Path, b: &Path| match (std::fs::canonicalize(a), std::fs::canonicalize(b)) {
+        (Ok(x), Ok(y)) => x == y,
+        _ => false,
+    };
+    if let Some(input) = inputs.iter().find(|i| same(output, i)) {
+        return Err(Error::bad_value(
+            "command line",
+            flag,
+            format!("\"{}\"", output.display()),
+            format!(
+                "is this command's input {}; write the output to another file",
+                input.display()
+            ),
+        ));
+    }
+    Ok(())
 }
 
 /// Writes what a renderer writes into a file.
@@ -372,9 +391,15 @@ fn load_job(path: &Path) -> Result<Job> {
     parse_job(&text, &origin, &loader)
 }
 
-/// Warnings and notes for stderr, unless `--quiet`.
+/// Warnings and notes for stderr, unless `--quiet`. A stderr that cannot be written (closed, or
+/// a full device) is not a reason to stop: the data on stdout and the exit code still stand.
 fn note(ctx: &Ctx, line: &str) {
     if !ctx.quiet {
-        eprintln!("{line}");
+        say(line);
     }
+}
+
+/// One line on stderr, ignoring a stderr that cannot be written.
+fn say(line: &str) {
+    let _ = writeln!(std::io::stderr(), "{line}");
 }

@@ -103,6 +103,9 @@ pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
         ));
     }
     let f = flag_in("--frequency", a.frequency, 1.0, true, 2000.0, "Hz")?;
+    if let (Some(plot), Some(sweep)) = (&a.plot, &a.sweep) {
+        super::not_an_input(plot, &[sweep], "--plot")?;
+    }
     let (dims, estimated) = probe_core(
         &a.tongue,
         &a.stack,

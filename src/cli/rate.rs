@@ -115,6 +115,9 @@ pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
         flag_in("--va", p, 0.0, false, 1e7, "VA")?;
     }
     flag_in("--duty", a.duty, 0.0, false, 1.0, "")?;
+    if let (Some(plot), Some(job)) = (&a.plot, &a.job) {
+        super::not_an_input(plot, &[job], "--plot")?;
+    }
     let job = job_of(&a)?;
     let rating = rate(
         &job,

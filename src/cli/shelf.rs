@@ -291,7 +291,7 @@ fn add(path: &Path, name: &str, core: &CoreFlags, from: Option<&Path>) -> Result
     let e = checked(e)?;
     store::update(path, |shelf| {
         refuse_if_bad(name, shelf)?;
-        let id = shelf.next_id();
+        let id = shelf.ids_from(1).ok_or_else(|| ids_run_out(name))?;
         let mut entries: Vec<Entry> = shelf.entries.iter().map(|(e, _)| e.clone()).collect();
         entries.push(Entry { id, ..e });
         Ok((entries, id))
@@ -378,7 +378,10 @@ fn import(
         refuse_if_bad(name, shelf)?;
         let mut entries: Vec<Entry> = shelf.entries.iter().map(|(e, _)| e.clone()).collect();
         let mut ids = Vec::new();
-        for (id, e) in (shelf.next_id()..).zip(good) {
+        let first = shelf
+            .ids_from(good.len() as u64)
+            .ok_or_else(|| ids_run_out(name))?;
+        for (id, e) in (first..).zip(good) {
             ids.push(id);
             let added = if e.added.is_empty() {
                 today()
@@ -407,7 +410,11 @@ fn rank(
         && !ctx.quiet;
     let progress = |done: usize| {
         if show_progress {
-            eprint!("\r{}", render::shelf::progress_line(done, total));
+            let _ = write!(
+                std::io::stderr(),
+                "\r{}",
+                render::shelf::progress_line(done, total)
+            );
         }
     };
     let threads = std::thread::available_parallelism()
@@ -415,7 +422,11 @@ fn rank(
         .unwrap_or(1);
     let r = ranking(job, shelf, top, threads, &progress);
     if show_progress {
-        eprintln!("\r{}", render::shelf::progress_done(total));
+        let _ = writeln!(
+            std::io::stderr(),
+            "\r{}",
+            render::shelf::progress_done(total)
+        );
     }
     r
 }
@@ -517,5 +528,15 @@ fn not_found(name: &str, id: u64, shelf: &Shelf) -> Error {
         "id",
         id,
         format!("no core with that id on the shelf ({n} cores; `ironwind shelf list` shows them)"),
+    )
+}
+
+fn ids_run_out(name: &str) -> Error {
+    Error::bad_input(
+        name,
+        format!(
+            "the largest id on the shelf leaves no room for new ones (ids stop at {}); edit that row's id to a small free number",
+            u64::MAX
+        ),
     )
 }

@@ -279,6 +279,9 @@ impl Job {
     }
 }
 
+/// Most turns in one winding a plan may ask a person to wind.
+pub const MAX_WINDING_TURNS: u32 = winding::MAX_TURNS;
+
 /// Largest core dimension accepted, mm.
 pub const MAX_CORE_MM: f64 = 1000.0;
 

@@ -14,6 +14,10 @@ use serde::Deserialize;
 
 /// Most turns a winding may have (a fixed count or a computed one).
 pub const MAX_TURNS: u32 = 100_000;
+/// The least volts a winding may ask for, V (below a millivolt nothing is measured or wound).
+pub const MIN_VOLTS: f64 = 0.001;
+/// The least full-load current of an output, A.
+pub const MIN_AMPS: f64 = 1e-6;
 
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -77,11 +81,11 @@ pub(super) fn winding_tables(
 fn name_of(c: &Checker, i: usize, rw: &RawWinding, before: &[WindingSpec]) -> Result<String> {
     let at = format!("[[winding]] #{}", i + 1);
     let name = rw.name.trim().to_string();
-    if name.is_empty() || name.chars().count() > 40 || name.chars().any(char::is_control) {
+    if name.is_empty() || name.chars().count() > 40 || name.chars().any(crate::error::unsafe_char) {
         return Err(c.fail(
             &format!("{at} name"),
-            format!("\"{}\"", rw.name),
-            "must be 1 to 40 printable characters",
+            format!("\"{}\"", crate::render::visible(&rw.name)),
+            "must be 1 to 40 printable characters (no control, bidirectional or zero-width characters)",
         ));
     }
     if before.iter().any(|w| w.name == name) {
@@ -118,7 +122,7 @@ fn winding_table(
         None => None,
     };
     let volts = match (rw.volts, fixed_turns, role) {
-        (Some(v), _, _) => c.range(&key("volts"), v, 0.0, false, 100_000.0, "V")?,
+        (Some(v), _, _) => c.range(&key("volts"), v, MIN_VOLTS, true, 100_000.0, "V")?,
         (None, Some(_), Role::Secondary) => 0.0,
         (None, _, Role::Primary) => return Err(c.fail(
             &key("volts"),
@@ -178,7 +182,7 @@ fn amps_of(c: &Checker, rw: &RawWinding, role: Role, key: &dyn Fn(&str) -> Strin
             "(missing)",
             "an output winding needs its full-load amps, > 0 and ≤ 10000 A",
         )),
-        (Role::Secondary, Some(i)) => c.range(&key("amps"), i, 0.0, false, 10_000.0, "A"),
+        (Role::Secondary, Some(i)) => c.range(&key("amps"), i, MIN_AMPS, true, 10_000.0, "A"),
         (Role::Primary, Some(i)) => Err(c.fail(
             &key("amps"),
             fmt_value(i),

@@ -563,10 +563,17 @@ fn buy_text(b: &BuyRow) -> String {
     format!("{what}: {} m, {} g", num(b.length_m, 1), num(b.mass_g, 0))
 }
 
+/// Text for Markdown: HTML's specials escaped, so a name cannot carry markup into a page.
+fn md(s: &str) -> String {
+    s.replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;")
+}
+
 /// The Markdown card.
 pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     let mut s = String::new();
-    let _ = writeln!(s, "# Winding card: {}\n", p.name);
+    let _ = writeln!(s, "# Winding card: {}\n", md(&p.name));
     let _ = writeln!(s, "{}  \n{}\n", core_line(p, o.look.units), drive_line(p));
     let _ = writeln!(s, "Wind in this order, innermost first, every winding in the **same direction**. Mark each start lead before the first turn.\n");
     let n = p.windings.len();
@@ -576,7 +583,7 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
             "## {}. {} \"{}\": {}\n",
             k + 1,
             role_word(w),
-            w.name,
+            md(&w.name),
             volts_amps(p, w)
         );
         let _ = writeln!(
@@ -629,7 +636,7 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
         let _ = writeln!(
             s,
             "| {} | {} | {} | {} |",
-            w.name,
+            md(&w.name),
             num(w.cut_length_m, 2),
             w.wire.strands,
             num(w.copper_mass_g, 0)
@@ -641,14 +648,14 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     }
     let _ = writeln!(s, "\n## Bench checks\n");
     for l in bench_lines(p) {
-        let _ = writeln!(s, "- {l}");
+        let _ = writeln!(s, "- {}", md(&l));
     }
     for l in power_up_lines() {
         let _ = writeln!(s, "- {l}");
     }
-    let _ = writeln!(s, "\n**{}**\n", verdict_line(p));
+    let _ = writeln!(s, "\n**{}**\n", md(&verdict_line(p)));
     for w in &p.warnings {
-        let _ = writeln!(s, "> {}\n", words::warning(w));
+        let _ = writeln!(s, "> {}\n", md(&words::warning(w)));
     }
     let _ = writeln!(s, "## Cautions\n");
     for c in p.cautions {

@@ -6,9 +6,9 @@ use std::io::Write;
 
 /// One CSV row.
 #[derive(Debug, Serialize)]
-pub struct ScheduleRow<'a> {
-    /// Winding name.
-    pub name: &'a str,
+pub struct ScheduleRow {
+    /// Winding name (a spreadsheet formula neutralised: `=`, `+`, `-`, `@` lead with `'`).
+    pub name: String,
     /// Role.
     pub role: &'static str,
     /// Kept donor winding.
@@ -58,7 +58,7 @@ pub fn write_schedule(out: &mut dyn Write, plan: &Plan) -> std::io::Result<()> {
     let mut w = csv::Writer::from_writer(out);
     for p in &plan.windings {
         w.serialize(ScheduleRow {
-            name: &p.name,
+            name: crate::shelf::neutralise(&p.name),
             role: p.role.name(),
             kept: p.kept,
             volts: p.volts,

@@ -157,6 +157,20 @@ impl Look {
     }
 }
 
+/// Text from a file made safe for a terminal: control, bidirectional and zero-width characters
+/// shown as `\u{..}` escapes instead of acting on the screen.
+pub fn visible(s: &str) -> String {
+    let mut out = String::with_capacity(s.len());
+    for c in s.chars() {
+        if crate::error::unsafe_char(c) {
+            out += &format!("\\u{{{:x}}}", c as u32);
+        } else {
+            out.push(c);
+        }
+    }
+    out
+}
+
 /// Builds a table from rows (the first is the header) with numbers right-aligned from `right_from`;
 /// the text ends with a newline.
 pub fn table(rows: Vec<Vec<String>>, right_from: usize, charset: Charset) -> String {

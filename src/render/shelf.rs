@@ -1,7 +1,7 @@
 //! The shelf: the listing (`list`, `export`), one core (`show`), the ranking (`rank`) and the short
 //! answers of `add`, `edit`, `remove` and `import`, as text, JSON or CSV.
 
-use super::{core::by, num, pairs, table, Format, Look, Units};
+use super::{core::by, num, pairs, table, visible, Format, Look, Units};
 use crate::shelf::{export_csv, Entry, Listed, Listing, Ranking};
 use serde::Serialize;
 use std::io::Write;
@@ -98,15 +98,15 @@ fn list_text(l: &Listing, look: &Look) -> String {
         let (e, d, g) = (&c.entry, &c.values.dims, &c.geometry);
         let pair = |a: &str, b: &str, av: f64, bv: f64| {
             if metric {
-                format!("{a} × {b}")
+                format!("{} × {}", visible(a), visible(b))
             } else {
                 format!("{} × {}", look.mm_bare(av, 2), look.mm_bare(bv, 2))
             }
         };
         t.push(vec![
             e.id.to_string(),
-            e.label.clone(),
-            e.shape.clone(),
+            visible(&e.label),
+            visible(&e.shape),
             pair(&e.tongue_mm, &e.stack_mm, d.tongue_mm, d.stack_mm),
             pair(
                 &e.window_width_mm,
@@ -124,8 +124,8 @@ fn list_text(l: &Listing, look: &Look) -> String {
             } else {
                 num(g.mass_kg / 0.453_592_37, 2)
             },
-            e.volts_per_turn.clone(),
-            e.added.clone(),
+            visible(&e.volts_per_turn),
+            visible(&e.added),
         ]);
     }
     table(t, 5, look.charset)
@@ -146,14 +146,15 @@ pub fn write_show(
     let s = pairs(
         &[
             ("id", e.id.to_string()),
-            ("label", look.heading(&e.label)),
-            ("shape", e.shape.clone()),
+            ("label", look.heading(&visible(&e.label))),
+            ("shape", visible(&e.shape)),
             (
                 "tongue × stack",
                 if metric {
                     format!(
                         "{} × {} (mm unless a unit is given)",
-                        e.tongue_mm, e.stack_mm
+                        visible(&e.tongue_mm),
+                        visible(&e.stack_mm)
                     )
                 } else {
                     by(look, d.tongue_mm, d.stack_mm, 2)
@@ -162,13 +163,17 @@ pub fn write_show(
             (
                 "window w × h",
                 if metric {
-                    format!("{} × {}", e.window_width_mm, e.window_height_mm)
+                    format!(
+                        "{} × {}",
+                        visible(&e.window_width_mm),
+                        visible(&e.window_height_mm)
+                    )
                 } else {
                     by(look, d.window_width_mm, d.window_height_mm, 2)
                 },
             ),
-            ("stacking factor", e.stacking_factor.clone()),
-            ("steel", e.steel.clone()),
+            ("stacking factor", visible(&e.stacking_factor)),
+            ("steel", visible(&e.steel)),
             ("Ae net", look.mm2(g.area_net_mm2, 1)),
             ("Aw", look.mm2(g.window_area_mm2, 1)),
             (
@@ -192,11 +197,11 @@ pub fn write_show(
                 if e.volts_per_turn.is_empty() {
                     "not probed".into()
                 } else {
-                    format!("{} V", e.volts_per_turn)
+                    format!("{} V", visible(&e.volts_per_turn))
                 },
             ),
-            ("notes", e.notes.clone()),
-            ("added", e.added.clone()),
+            ("notes", visible(&e.notes)),
+            ("added", visible(&e.added)),
         ],
         look.charset,
     );
@@ -241,7 +246,7 @@ pub fn write_rank(
         t.push(vec![
             (k + 1).to_string(),
             c.id.to_string(),
-            c.label.clone(),
+            visible(&c.label),
             look.mark(if c.carries { "yes" } else { "no" }, c.carries),
             num(c.margin_pct.min(99_999.0), 0),
             c.limit.clone(),
@@ -255,7 +260,7 @@ pub fn write_rank(
     write!(
         out,
         "\"{}\" ({} VA) on {} cores: {carrying} shown carry it\n{s}",
-        r.job,
+        visible(&r.job),
         num(r.job_va, 0),
         r.total
     )
@@ -292,7 +297,8 @@ pub fn write_imported(out: &mut dyn Write, ids: &[u64], skipped: usize) -> std::
 pub fn bad_row_warning(path: &str, b: &crate::shelf::BadRow) -> String {
     format!(
         "warning: {path}: line {}: {} (the row is skipped; fix or remove it)",
-        b.line, b.problem
+        b.line,
+        visible(&b.problem)
     )
 }
 

@@ -139,7 +139,13 @@ impl Axis {
                 };
                 let mut t = Vec::new();
                 let mut p = 10f64.powf(self.lo.log10().floor());
-                while p <= self.hi && t.len() < 40 {
+                if !(p.is_finite() && p > 0.0) {
+                    return t;
+                }
+                // At most a double's range of decades, whatever the values.
+                let mut decade = 0;
+                while p <= self.hi && t.len() < 40 && decade < 700 {
+                    decade += 1;
                     for m in mults {
                         let v = p * m;
                         if v >= self.lo && v <= self.hi {

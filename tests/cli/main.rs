@@ -8,6 +8,7 @@ mod corpus;
 mod demo;
 mod diagnose;
 mod golden;
+mod hostile;
 mod input_errors;
 mod look;
 mod plan_cmd;
