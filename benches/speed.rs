@@ -163,6 +163,67 @@ fn main() {
             t.elapsed().as_secs_f64() * 1e3,
             out.status.code().unwrap_or(-1)
         );
+        // A million cores listed as they are read (the whole command, every format).
+        let shelf_path = dir.join("million.csv");
+        std::fs::write(&shelf_path, generated_shelf(1_000_000, 11)).expect("write shelf");
+        for format in ["text", "json", "csv"] {
+            let t = Instant::now();
+            let out = Command::new(&bin)
+                .args(["shelf", "--shelf"])
+                .arg(&shelf_path)
+                .args(["list", "--format", format])
+                .stdout(std::process::Stdio::null())
+                .status()
+                .expect("list");
+            println!(
+                "  whole command `ironwind shelf list --format {format}` on 1 000 000 cores: {:.0} ms (exit {})",
+                t.elapsed().as_secs_f64() * 1e3,
+                out.code().unwrap_or(-1)
+            );
+        }
+        println!("\nworst cases inside the accepted ranges (whole commands)");
+        worst_cases(&bin, &dir);
         let _ = std::fs::remove_dir_all(&dir);
+    }
+}
+
+/// Jobs at the edges of what the parser accepts: 32 windings, 100 kV, 1 Hz and 2 kHz, the largest
+/// core; each command timed as a whole process.
+fn worst_cases(bin: &std::path::Path, dir: &std::path::Path) {
+    let mut many = String::from("[core]\ntongue_mm = 1000\nstack_mm = 1000\nwindow_width_mm = 1000\nwindow_height_mm = 1000\n[supply]\nfrequency_hz = 2000\n[[winding]]\nname = \"p\"\nrole = \"primary\"\nvolts = 100000\n");
+    for k in 1..32 {
+        many += &format!(
+            "[[winding]]\nname = \"s{k}\"\nrole = \"secondary\"\nvolts = {}\namps = 10000\n",
+            k * 1000
+        );
+    }
+    let slow = "[core]\ntongue_mm = 1000\nstack_mm = 1000\nwindow_width_mm = 1\nwindow_height_mm = 1000\n[supply]\nfrequency_hz = 1\n[[winding]]\nname = \"p\"\nrole = \"primary\"\nvolts = 100000\n[[winding]]\nname = \"s\"\nrole = \"secondary\"\nvolts = 0.001\namps = 0.000001\n".to_string();
+    for (name, text) in [
+        ("32 windings, 2 kHz, 100 kV", many),
+        ("1 Hz, 100 kV, a 1 mm window", slow),
+    ] {
+        let job = dir.join("worst.toml");
+        std::fs::write(&job, text).expect("job");
+        for args in [
+            vec!["plan"],
+            vec!["card", "--format", "markdown"],
+            vec!["rate"],
+        ] {
+            let t = Instant::now();
+            let out = Command::new(bin)
+                .args(&args[..1])
+                .arg(&job)
+                .args(&args[1..])
+                .stdout(std::process::Stdio::null())
+                .stderr(std::process::Stdio::null())
+                .status()
+                .expect("runs");
+            println!(
+                "  {name}: `ironwind {}` {:.0} ms (exit {})",
+                args.join(" "),
+                t.elapsed().as_secs_f64() * 1e3,
+                out.code().unwrap_or(-1)
+            );
+        }
     }
 }

@@ -282,22 +282,47 @@ pub fn check_entry(mut e: Entry) -> std::result::Result<(Entry, CoreValues), Str
 /// collected, never fatal.
 pub fn parse_shelf(origin: &str, text: &str) -> Result<Shelf> {
     let mut shelf = Shelf::default();
-    if text.trim().is_empty() {
-        return Ok(shelf);
-    }
+    read_rows(origin, text.as_bytes(), |row| match row {
+        Ok(ev) => shelf.entries.push(ev),
+        Err(bad) => shelf.bad.push(bad),
+    })?;
+    Ok(shelf)
+}
+
+/// One row of a shelf file: a checked core, or a row that does not read.
+pub type Row = std::result::Result<(Entry, CoreValues), BadRow>;
+
+/// Reads a shelf file row by row from any reader, handing each row to `each` as it is read (a
+/// listing of a million cores need not hold them all). An empty file is an empty shelf.
+pub fn read_rows(origin: &str, reader: impl std::io::Read, each: impl FnMut(Row)) -> Result<()> {
+    read_rows_with(origin, reader, true, each)
+}
+
+/// [`read_rows`], with the check for an id used twice left out when the caller knows the ids rise
+/// (a streamed listing has checked them on its first pass).
+pub fn read_rows_with(
+    origin: &str,
+    reader: impl std::io::Read,
+    check_twice: bool,
+    mut each: impl FnMut(Row),
+) -> Result<()> {
     let mut seen = std::collections::HashSet::new();
     let mut rdr = csv::ReaderBuilder::new()
-        .has_headers(true)
+        .has_headers(false)
         .flexible(true)
-        .from_reader(text.as_bytes());
-    let header = rdr
-        .headers()
-        .map_err(|e| Error::bad_input(origin, format!("line 1: {e}")))?
-        .clone();
+        .from_reader(reader);
+    let mut records = rdr.records();
+    let header = match records.next() {
+        None => return Ok(()),
+        Some(h) => h.map_err(|e| Error::bad_input(origin, format!("line 1: {e}")))?,
+    };
     let names: Vec<&str> = header
         .iter()
         .map(|h| h.trim_start_matches('\u{feff}'))
         .collect();
+    if names.len() == 1 && names[0].trim().is_empty() {
+        return Ok(());
+    }
     if names != HEADER {
         return Err(Error::bad_input(
             origin,
@@ -308,80 +333,93 @@ pub fn parse_shelf(origin: &str, text: &str) -> Result<Shelf> {
             ),
         ));
     }
-    for rec in rdr.records() {
-        let rec = match rec {
-            Ok(r) => r,
-            Err(e) => {
-                let line = e.position().map(|p| p.line()).unwrap_or(0);
-                shelf.bad.push(BadRow {
-                    line,
-                    id: None,
-                    problem: crate::error::one_line(&e.to_string()),
-                });
-                continue;
+    for rec in records {
+        match rec {
+            Ok(r) => {
+                if let Some(row) = row_of(&r, check_twice.then_some(&mut seen)) {
+                    each(row);
+                }
             }
-        };
-        let line = rec.position().map(|p| p.line()).unwrap_or(0);
-        if rec.len() == 1 && rec.get(0).is_some_and(|c| c.trim().is_empty()) {
-            continue;
-        }
-        let id = rec
-            .get(0)
-            .and_then(|c| c.trim().parse::<u64>().ok())
-            .filter(|&i| i > 0);
-        if rec.len() != HEADER.len() {
-            shelf.bad.push(BadRow {
-                line,
-                id,
-                problem: format!("{} fields; a shelf row has {}", rec.len(), HEADER.len()),
-            });
-            continue;
-        }
-        let Some(id) = id else {
-            shelf.bad.push(BadRow {
-                line,
+            Err(e) => each(Err(BadRow {
+                line: e.position().map(|p| p.line()).unwrap_or(0),
                 id: None,
-                problem: format!(
-                    "id = \"{}\": must be a whole number ≥ 1",
-                    rec.get(0).unwrap_or("")
-                ),
-            });
-            continue;
-        };
-        if !seen.insert(id) {
-            shelf.bad.push(BadRow {
-                line,
-                id: Some(id),
-                problem: format!("id {id} is used twice"),
-            });
-            continue;
-        }
-        let cell = |k: usize| rec.get(k).unwrap_or("").to_string();
-        let entry = Entry {
-            id,
-            label: cell(1),
-            shape: cell(2),
-            tongue_mm: cell(3),
-            stack_mm: cell(4),
-            window_width_mm: cell(5),
-            window_height_mm: cell(6),
-            stacking_factor: cell(7),
-            steel: cell(8),
-            mass_g: cell(9),
-            volts_per_turn: cell(10),
-            notes: cell(11),
-            added: cell(12),
-        };
-        match check_entry(entry) {
-            Ok(ev) => shelf.entries.push(ev),
-            Err(problem) => shelf.bad.push(BadRow {
-                line,
-                id: Some(id),
-                problem,
-            }),
+                problem: crate::error::one_line(&e.to_string()),
+            })),
         }
     }
-    Ok(shelf)
+    Ok(())
+}
+
+/// A quick first look at a shelf file's rows: each data row's cells, unchecked, with its id when it
+/// reads as one (no header check: [`read_rows`] does that on the pass that counts).
+pub fn scan_cells(
+    reader: impl std::io::Read,
+    mut each: impl FnMut(Option<u64>, &csv::StringRecord),
+) {
+    let mut rdr = csv::ReaderBuilder::new()
+        .has_headers(true)
+        .flexible(true)
+        .from_reader(reader);
+    let mut rec = csv::StringRecord::new();
+    while let Ok(true) = rdr.read_record(&mut rec) {
+        let id = rec.get(0).and_then(|c| c.trim().parse::<u64>().ok());
+        each(id, &rec);
+    }
+}
+
+/// One record checked into a row; None for a blank line.
+fn row_of(
+    rec: &csv::StringRecord,
+    seen: Option<&mut std::collections::HashSet<u64>>,
+) -> Option<Row> {
+    let line = rec.position().map(|p| p.line()).unwrap_or(0);
+    if rec.len() == 1 && rec.get(0).is_some_and(|c| c.trim().is_empty()) {
+        return None;
+    }
+    let id = rec
+        .get(0)
+        .and_then(|c| c.trim().parse::<u64>().ok())
+        .filter(|&i| i > 0);
+    let bad = |id, problem| Some(Err(BadRow { line, id, problem }));
+    if rec.len() != HEADER.len() {
+        return bad(
+            id,
+            format!("{} fields; a shelf row has {}", rec.len(), HEADER.len()),
+        );
+    }
+    let Some(id) = id else {
+        return bad(
+            None,
+            format!(
+                "id = \"{}\": must be a whole number ≥ 1",
+                crate::error::short_value(rec.get(0).unwrap_or(""))
+            ),
+        );
+    };
+    if seen.is_some_and(|s| !s.insert(id)) {
+        return bad(Some(id), format!("id {id} is used twice"));
+    }
+    let cell = |k: usize| rec.get(k).unwrap_or("").to_string();
+    let entry = Entry {
+        id,
+        label: cell(1),
+        shape: cell(2),
+        tongue_mm: cell(3),
+        stack_mm: cell(4),
+        window_width_mm: cell(5),
+        window_height_mm: cell(6),
+        stacking_factor: cell(7),
+        steel: cell(8),
+        mass_g: cell(9),
+        volts_per_turn: cell(10),
+        notes: cell(11),
+        added: cell(12),
+    };
+    Some(check_entry(entry).map_err(|problem| BadRow {
+        line,
+        id: Some(id),
+        problem,
+    }))
 }
 
 /// Neutralises a text cell a spreadsheet would run as a formula (OWASP CSV injection guidance:

@@ -60,6 +60,33 @@ pub fn regular_target(path: &Path) -> Result<PathBuf> {
     }
 }
 
+/// Reads the shelf row by row, handing each to `each` (a missing file has none). The ids are known
+/// to rise (a streamed listing's first pass checked them), so no id can be used twice.
+pub fn stream(path: &Path, each: impl FnMut(crate::shelf::Row)) -> Result<()> {
+    let path = &regular_target(path)?;
+    let name = path.display().to_string();
+    let f = match File::open(path) {
+        Ok(f) => f,
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => return Ok(()),
+        Err(e) => return Err(Error::io(&name, "cannot read the shelf", &e)),
+    };
+    crate::shelf::read_rows_with(&name, std::io::BufReader::new(f), false, each)
+}
+
+/// A quick first pass over the shelf's rows, unchecked (see `shelf::scan_cells`).
+pub fn scan(path: &Path, each: impl FnMut(Option<u64>, &csv::StringRecord)) -> Result<()> {
+    let path = &regular_target(path)?;
+    let name = path.display().to_string();
+    match File::open(path) {
+        Ok(f) => {
+            crate::shelf::scan_cells(std::io::BufReader::new(f), each);
+            Ok(())
+        }
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok(()),
+        Err(e) => Err(Error::io(&name, "cannot read the shelf", &e)),
+    }
+}
+
 /// Reads the shelf; a missing file is an empty shelf.
 pub fn read(path: &Path) -> Result<Shelf> {
     let path = &regular_target(path)?;

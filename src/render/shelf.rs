@@ -78,9 +78,10 @@ pub fn write_list(
     }
 }
 
-fn list_text(l: &Listing, look: &Look) -> String {
+/// The header row of the text listing.
+fn list_header(look: &Look) -> Vec<String> {
     let metric = look.units == Units::Metric;
-    let mut t = vec![vec![
+    vec![
         "id".to_string(),
         "label".into(),
         "shape".into(),
@@ -90,11 +91,24 @@ fn list_text(l: &Listing, look: &Look) -> String {
         if metric { "mass kg" } else { "mass lb" }.into(),
         "V/turn".into(),
         "added".into(),
-    ]];
+    ]
+}
+
+fn list_text(l: &Listing, look: &Look) -> String {
+    let mut t = vec![list_header(look)];
     for cell in t[0].iter_mut() {
         *cell = look.heading(cell);
     }
     for c in &l.cores {
+        t.push(list_cells(c, look));
+    }
+    table(t, 5, look.charset)
+}
+
+/// One core's cells in the text listing.
+pub fn list_cells(c: &Listed, look: &Look) -> Vec<String> {
+    let metric = look.units == Units::Metric;
+    {
         let (e, d, g) = (&c.entry, &c.values.dims, &c.geometry);
         let pair = |a: &str, b: &str, av: f64, bv: f64| {
             if metric {
@@ -103,7 +117,7 @@ fn list_text(l: &Listing, look: &Look) -> String {
                 format!("{} × {}", look.mm_bare(av, 2), look.mm_bare(bv, 2))
             }
         };
-        t.push(vec![
+        vec![
             e.id.to_string(),
             visible(&e.label),
             visible(&e.shape),
@@ -126,9 +140,129 @@ fn list_text(l: &Listing, look: &Look) -> String {
             },
             visible(&e.volts_per_turn),
             visible(&e.added),
-        ]);
+        ]
     }
-    table(t, 5, look.charset)
+}
+
+/// A listing written as it is read, for shelves too large to hold: column widths from a first
+/// pass, then each row as it comes (text), or each core as one JSON object, or each CSV row.
+pub struct ListStream {
+    format: Format,
+    widths: Vec<usize>,
+    look: Look,
+    first: bool,
+}
+
+/// The first pass of a streamed listing: column widths of the text table.
+pub fn widths_of(widths: &mut Vec<usize>, cells: &[String]) {
+    if widths.len() < cells.len() {
+        widths.resize(cells.len(), 0);
+    }
+    for (w, c) in widths.iter_mut().zip(cells) {
+        *w = (*w).max(c.chars().count());
+    }
+}
+
+impl ListStream {
+    /// A stream in `format` with the text widths of the first pass (header included).
+    pub fn new(format: Format, mut widths: Vec<usize>, look: &Look) -> ListStream {
+        widths_of(&mut widths, &list_header(look));
+        ListStream {
+            format,
+            widths,
+            look: *look,
+            first: true,
+        }
+    }
+
+    fn rule(&self, l: &str, m: &str, r: &str) -> String {
+        let (l, m, r, h) = match self.look.charset {
+            super::Charset::Unicode => (l, m, r, "─"),
+            super::Charset::Ascii => ("+", "+", "+", "-"),
+        };
+        let parts: Vec<String> = self.widths.iter().map(|w| h.repeat(w + 2)).collect();
+        format!("{l}{}{r}\n", parts.join(m))
+    }
+
+    fn line(&self, cells: &[String]) -> String {
+        let v = if self.look.charset == super::Charset::Ascii {
+            "|"
+        } else {
+            "│"
+        };
+        let parts: Vec<String> = cells
+            .iter()
+            .zip(&self.widths)
+            .enumerate()
+            .map(|(k, (c, w))| {
+                let pad = w.saturating_sub(c.chars().count());
+                if k >= 5 {
+                    format!(" {}{c} ", " ".repeat(pad))
+                } else {
+                    format!(" {c}{} ", " ".repeat(pad))
+                }
+            })
+            .collect();
+        format!("{v}{}{v}\n", parts.join(v))
+    }
+
+    /// The opening: the table's head, `{"cores": [`, or the CSV header.
+    pub fn head(&mut self, out: &mut dyn Write) -> std::io::Result<()> {
+        match self.format {
+            Format::Json => out.write_all(b"{\n  \"cores\": ["),
+            Format::Csv => out.write_all(export_csv(&[]).as_bytes()),
+            _ => {
+                let head: Vec<String> = list_header(&self.look)
+                    .iter()
+                    .map(|h| self.look.heading(h))
+                    .collect();
+                let mut s = self.rule("╭", "┬", "╮");
+                s += &self.line(&head);
+                s += &self.rule("├", "┼", "┤");
+                out.write_all(self.look.finish(s).as_bytes())
+            }
+        }
+    }
+
+    /// One core.
+    pub fn row(&mut self, out: &mut dyn Write, c: &Listed) -> std::io::Result<()> {
+        let first = std::mem::replace(&mut self.first, false);
+        match self.format {
+            Format::Json => {
+                let obj = serde_json::to_string(&core_json(c)).map_err(std::io::Error::other)?;
+                write!(out, "{}\n    {obj}", if first { "" } else { "," })
+            }
+            Format::Csv => {
+                let text = export_csv(std::slice::from_ref(&c.entry));
+                out.write_all(text.split_once('\n').map(|x| x.1).unwrap_or("").as_bytes())
+            }
+            _ => {
+                let line = self.line(&list_cells(c, &self.look));
+                out.write_all(self.look.finish(line).as_bytes())
+            }
+        }
+    }
+
+    /// The close: the table's foot and the count, or the bad rows of the JSON.
+    pub fn tail(
+        &mut self,
+        out: &mut dyn Write,
+        count: usize,
+        origin: &str,
+        bad: &[crate::shelf::BadRow],
+    ) -> std::io::Result<()> {
+        match self.format {
+            Format::Json => {
+                let bad = serde_json::to_string(bad).map_err(std::io::Error::other)?;
+                write!(out, "\n  ],\n  \"bad_rows\": {bad}\n}}\n")
+            }
+            Format::Csv => Ok(()),
+            _ => {
+                let s = self.rule("╰", "┴", "╯");
+                writeln!(out, "{}{count} cores on {origin}", self.look.finish(s))
+            }
+        }
+    }
 }
 
 /// `shelf show`: one core, text or JSON.

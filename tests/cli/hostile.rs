@@ -214,3 +214,39 @@ fn long_messages_are_whole() {
         .one_line_error()
         .stderr_has("`mass_g`");
 }
+
+#[test]
+fn a_large_shelf_lists_as_it_is_read() {
+    // Past 5000 cores in id order the listing streams; every format stays whole and the same rows.
+    let d = scratch("big-shelf");
+    let mut text = String::from("id,label,shape,tongue_mm,stack_mm,window_width_mm,window_height_mm,stacking_factor,steel,mass_g,volts_per_turn,notes,added\n");
+    for id in 1..=6000 {
+        text += &format!(
+            "{id},core {id},ei,{},40,16,48,0.95,unknown,,,,2026-11-20\n",
+            20 + id % 30
+        );
+    }
+    text += "6001,bad row,zz,1,1,1,1,0.95,unknown,,,,2026-11-20\n";
+    let shelf = write(&d, "big.csv", &text);
+    let t = run(&["shelf", "--shelf", &shelf, "list"]).ok();
+    assert!(
+        t.stdout.ends_with(&format!("6000 cores on {shelf}\n")),
+        "{}",
+        &t.stdout[t.stdout.len() - 200..]
+    );
+    assert!(
+        t.stderr.contains("line 6002"),
+        "the bad row is named: {}",
+        t.stderr
+    );
+    let j = run(&["shelf", "--shelf", &shelf, "list", "--format", "json"])
+        .ok()
+        .json();
+    assert_eq!(j["cores"].as_array().expect("cores").len(), 6000);
+    assert_eq!(j["bad_rows"].as_array().expect("bad").len(), 1);
+    assert_eq!(j["cores"][5999]["id"], 6000);
+    let csv = run(&["shelf", "--shelf", &shelf, "list", "--format", "csv"])
+        .ok()
+        .stdout;
+    assert_eq!(csv.lines().count(), 6001, "header and every good row");
+}
