@@ -182,6 +182,13 @@ fn length(field: &str, text: &str) -> std::result::Result<f64, String> {
     }
 }
 
+/// Trims a cell without a new allocation when there is nothing to trim.
+fn trim_in_place(cell: &mut String) {
+    if cell.trim().len() != cell.len() {
+        *cell = cell.trim().to_string();
+    }
+}
+
 fn text_cell(
     field: &str,
     text: &str,
@@ -222,27 +229,31 @@ pub fn check_entry(mut e: Entry) -> std::result::Result<(Entry, CoreValues), Str
     let s = length("stack_mm", &e.stack_mm)?;
     let w = length("window_width_mm", &e.window_width_mm)?;
     let h = length("window_height_mm", &e.window_height_mm)?;
-    e.tongue_mm = e.tongue_mm.trim().to_string();
-    e.stack_mm = e.stack_mm.trim().to_string();
-    e.window_width_mm = e.window_width_mm.trim().to_string();
-    e.window_height_mm = e.window_height_mm.trim().to_string();
+    for cell in [
+        &mut e.tongue_mm,
+        &mut e.stack_mm,
+        &mut e.window_width_mm,
+        &mut e.window_height_mm,
+    ] {
+        trim_in_place(cell);
+    }
     if e.stacking_factor.trim().is_empty() {
         e.stacking_factor = "0.95".to_string();
     }
-    e.stacking_factor = e.stacking_factor.trim().to_string();
+    trim_in_place(&mut e.stacking_factor);
     let k = decimal("stacking_factor", &e.stacking_factor, 0.5, false, 1.0, "")?;
     if e.steel.trim().is_empty() {
         e.steel = "unknown".to_string();
     }
-    e.steel = e.steel.trim().to_string();
+    trim_in_place(&mut e.steel);
     steel_info(&e.steel).map_err(|m| format!("steel = \"{}\": {m}", e.steel))?;
-    e.mass_g = e.mass_g.trim().to_string();
+    trim_in_place(&mut e.mass_g);
     let mass = if e.mass_g.is_empty() {
         None
     } else {
         Some(decimal("mass_g", &e.mass_g, 0.0, false, 1.0e6, "g")? / 1000.0)
     };
-    e.volts_per_turn = e.volts_per_turn.trim().to_string();
+    trim_in_place(&mut e.volts_per_turn);
     let vpt = if e.volts_per_turn.is_empty() {
         None
     } else {
@@ -473,13 +484,26 @@ pub fn export_csv(entries: &[Entry]) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
     let _ = w.write_record(HEADER);
     for e in entries {
-        let mut r = row(e);
-        for k in [1, 2, 8, 11, 12] {
-            r[k] = neutralise(&r[k]);
-        }
-        let _ = w.write_record(&r);
+        let _ = w.write_record(&export_cells(e));
     }
     String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+}
+
+/// An entry's exported cells (text cells a spreadsheet would run neutralised).
+fn export_cells(e: &Entry) -> [String; 13] {
+    let mut r = row(e);
+    for k in [1, 2, 8, 11, 12] {
+        r[k] = neutralise(&r[k]);
+    }
+    r
+}
+
+/// Writes entries as export rows (no header) into a CSV writer kept across calls.
+pub fn write_export_rows<W: std::io::Write>(
+    w: &mut csv::Writer<W>,
+    e: &Entry,
+) -> std::result::Result<(), csv::Error> {
+    w.write_record(&export_cells(e))
 }
 
 /// Reads an import file (header [`IMPORT_HEADER`]): entries without ids, or the bad rows.

@@ -160,6 +160,9 @@ impl Look {
 /// Text from a file made safe for a terminal: control, bidirectional and zero-width characters
 /// shown as `\u{..}` escapes instead of acting on the screen.
 pub fn visible(s: &str) -> String {
+    if !s.chars().any(crate::error::unsafe_char) {
+        return s.to_string();
+    }
     let mut out = String::with_capacity(s.len());
     for c in s.chars() {
         if crate::error::unsafe_char(c) {

@@ -190,20 +190,23 @@ impl ListStream {
         } else {
             "│"
         };
-        let parts: Vec<String> = cells
-            .iter()
-            .zip(&self.widths)
-            .enumerate()
-            .map(|(k, (c, w))| {
-                let pad = w.saturating_sub(c.chars().count());
-                if k >= 5 {
-                    format!(" {}{c} ", " ".repeat(pad))
-                } else {
-                    format!(" {c}{} ", " ".repeat(pad))
-                }
-            })
-            .collect();
-        format!("{v}{}{v}\n", parts.join(v))
+        let mut line = String::with_capacity(160);
+        line.push_str(v);
+        for (k, (c, w)) in cells.iter().zip(&self.widths).enumerate() {
+            let pad = w.saturating_sub(c.chars().count());
+            line.push(' ');
+            if k >= 5 {
+                line.extend(std::iter::repeat_n(' ', pad));
+                line.push_str(c);
+            } else {
+                line.push_str(c);
+                line.extend(std::iter::repeat_n(' ', pad));
+            }
+            line.push(' ');
+            line.push_str(v);
+        }
+        line.push('\n');
+        line
     }
 
     /// The opening: the table's head, `{"cores": [`, or the CSV header.
@@ -233,8 +236,11 @@ impl ListStream {
                 write!(out, "{}\n    {obj}", if first { "" } else { "," })
             }
             Format::Csv => {
-                let text = export_csv(std::slice::from_ref(&c.entry));
-                out.write_all(text.split_once('\n').map(|x| x.1).unwrap_or("").as_bytes())
+                let mut w = csv::WriterBuilder::new()
+                    .has_headers(false)
+                    .from_writer(&mut *out);
+                crate::shelf::write_export_rows(&mut w, &c.entry).map_err(std::io::Error::other)?;
+                w.flush()
             }
             _ => {
                 let line = self.line(&list_cells(c, &self.look));
