@@ -484,7 +484,7 @@ pub fn export_csv(entries: &[Entry]) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
     let _ = w.write_record(HEADER);
     for e in entries {
-        let _ = w.write_record(&export_cells(e));
+        let _ = w.write_record(export_cells(e));
     }
     String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
 }
@@ -503,7 +503,7 @@ pub fn write_export_rows<W: std::io::Write>(
     w: &mut csv::Writer<W>,
     e: &Entry,
 ) -> std::result::Result<(), csv::Error> {
-    w.write_record(&export_cells(e))
+    w.write_record(export_cells(e))
 }
 
 /// Reads an import file (header [`IMPORT_HEADER`]): entries without ids, or the bad rows.
