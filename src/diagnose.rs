@@ -453,7 +453,48 @@ fn reversed_count(k: u32, ratio: f64, tol: f64) -> Option<u32> {
         .filter(|_| (ratio - 1.0).abs() > band)
 }
 
-/// A turns finding on output `i` read at `v` against `e`.
+/// What a turns finding says: the winding, the turns it seems to have, and the resistance ratio
+/// those turns would give.
+struct Miscount {
+    winding: usize,
+    estimated: f64,
+    ohms_ratio: f64,
+    all_outputs: bool,
+    alternative: bool,
+}
+
+/// A turns finding from a reading `v` against `e`.
+fn turns_finding(
+    plan: &Plan,
+    m: &Measured,
+    c: Miscount,
+    v: f64,
+    e: f64,
+    out: &mut Vec<Finding>,
+) -> (usize, f64) {
+    let w = &plan.windings[c.winding];
+    let tol = m.ohms_pct / 100.0 + 0.02;
+    let ohms_agree = resistance_ratio(plan, m, c.winding).map(|r| (r - c.ohms_ratio).abs() <= tol);
+    out.push(Finding {
+        kind: FindingKind::Turns,
+        winding: w.name.clone(),
+        turns: Some(c.estimated.round().max(0.0) as u32),
+        size: None,
+        evidence: Evidence::Turns {
+            measured_volts: v,
+            expected_volts: e,
+            estimated: c.estimated,
+            planned: w.turns,
+            all_outputs: c.all_outputs,
+            ohms_agree,
+            alternative: c.alternative,
+            turns_per_layer: w.coil.turns_per_layer,
+        },
+    });
+    (c.winding, c.estimated)
+}
+
+/// A turns finding on output `i`, reading `f` × the plan: N_s ≈ N_s,plan·f.
 #[allow(clippy::too_many_arguments)]
 fn output_turns(
     plan: &Plan,
@@ -465,27 +506,14 @@ fn output_turns(
     alternative: bool,
     out: &mut Vec<Finding>,
 ) -> (usize, f64) {
-    let w = &plan.windings[i];
-    let estimated = w.turns as f64 * f;
-    let ohms_agree =
-        resistance_ratio(plan, m, i).map(|r| (r - f).abs() <= m.ohms_pct / 100.0 + 0.02);
-    out.push(Finding {
-        kind: FindingKind::Turns,
-        winding: w.name.clone(),
-        turns: Some(estimated.round().max(0.0) as u32),
-        size: None,
-        evidence: Evidence::Turns {
-            measured_volts: v,
-            expected_volts: e,
-            estimated,
-            planned: w.turns,
-            all_outputs: false,
-            ohms_agree,
-            alternative,
-            turns_per_layer: w.coil.turns_per_layer,
-        },
-    });
-    (i, estimated)
+    let c = Miscount {
+        winding: i,
+        estimated: plan.windings[i].turns as f64 * f,
+        ohms_ratio: f,
+        all_outputs: false,
+        alternative,
+    };
+    turns_finding(plan, m, c, v, e, out)
 }
 
 /// A turns finding on the primary: the outputs read `f` × the plan, so N_p ≈ N_p,plan / f.
@@ -501,27 +529,14 @@ fn primary_turns(
     alternative: bool,
     out: &mut Vec<Finding>,
 ) -> (usize, f64) {
-    let w = &plan.windings[p_idx];
-    let estimated = w.turns as f64 / f;
-    let ohms_agree =
-        resistance_ratio(plan, m, p_idx).map(|r| (r - 1.0 / f).abs() <= m.ohms_pct / 100.0 + 0.02);
-    out.push(Finding {
-        kind: FindingKind::Turns,
-        winding: w.name.clone(),
-        turns: Some(estimated.round().max(0.0) as u32),
-        size: None,
-        evidence: Evidence::Turns {
-            measured_volts: v,
-            expected_volts: e,
-            estimated,
-            planned: w.turns,
-            all_outputs,
-            ohms_agree,
-            alternative,
-            turns_per_layer: w.coil.turns_per_layer,
-        },
-    });
-    (p_idx, estimated)
+    let c = Miscount {
+        winding: p_idx,
+        estimated: plan.windings[p_idx].turns as f64 / f,
+        ohms_ratio: 1.0 / f,
+        all_outputs,
+        alternative,
+    };
+    turns_finding(plan, m, c, v, e, out)
 }
 
 /// With one output off, the two explanations are both in `out` (output, then primary): the one

@@ -303,37 +303,39 @@ fn build_sizes(system: System, grade: Grade) -> Vec<RoundSize> {
                 area_mm2: round_area_mm2(r.nominal_mm),
             })
             .collect(),
-        System::Awg => data::awg()
-            .iter()
-            .rev()
-            .map(|r| RoundSize {
-                system,
-                size: r.gauge.to_string(),
-                bare_mm: r.bare_mm,
-                overall_mm: if grade == Grade::One {
-                    r.grade1_max_mm
-                } else {
-                    r.grade2_max_mm
-                },
-                area_mm2: round_area_mm2(r.bare_mm),
-            })
-            .collect(),
-        System::Swg => data::swg()
-            .iter()
-            .rev()
-            .map(|r| RoundSize {
-                system,
-                size: r.gauge.to_string(),
-                bare_mm: r.bare_mm,
-                overall_mm: if grade == Grade::One {
-                    r.grade1_max_mm
-                } else {
-                    r.grade2_max_mm
-                },
-                area_mm2: round_area_mm2(r.bare_mm),
-            })
-            .collect(),
+        System::Awg => gauge_sizes(
+            system,
+            grade,
+            data::awg()
+                .iter()
+                .map(|r| (r.gauge, r.bare_mm, r.grade1_max_mm, r.grade2_max_mm)),
+        ),
+        System::Swg => gauge_sizes(
+            system,
+            grade,
+            data::swg()
+                .iter()
+                .map(|r| (r.gauge, r.bare_mm, r.grade1_max_mm, r.grade2_max_mm)),
+        ),
     }
+}
+
+/// A gauge table's sizes, thinnest first: rows (gauge, bare, grade 1 and grade 2 overall, mm) come
+/// thickest first, as gauges count up.
+fn gauge_sizes(
+    system: System,
+    grade: Grade,
+    rows: impl DoubleEndedIterator<Item = (u32, f64, f64, f64)>,
+) -> Vec<RoundSize> {
+    rows.rev()
+        .map(|(gauge, bare, g1, g2)| RoundSize {
+            system,
+            size: gauge.to_string(),
+            bare_mm: bare,
+            overall_mm: if grade == Grade::One { g1 } else { g2 },
+            area_mm2: round_area_mm2(bare),
+        })
+        .collect()
 }
 
 /// The overall diameter of an enamelled round wire of bare diameter `d_mm` (measured with a
