@@ -9,6 +9,25 @@ use crate::units::LengthInput;
 use std::io::Read;
 use std::path::Path;
 
+/// Reads standard input as a text file (a job given as `-`), size-limited like a file.
+pub fn read_stdin() -> Result<String> {
+    let mut bytes = Vec::new();
+    std::io::stdin()
+        .take(MAX_READ_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(|e| Error::bad_input("standard input", format!("cannot read: {e}")))?;
+    if bytes.len() as u64 > MAX_READ_BYTES {
+        return Err(Error::bad_input(
+            "standard input",
+            format!(
+                "larger than {} MiB; expected a small text file",
+                MAX_READ_BYTES >> 20
+            ),
+        ));
+    }
+    String::from_utf8(bytes).map_err(|_| Error::bad_input("standard input", "not UTF-8 text"))
+}
+
 /// Largest text file read (job, sweep, shelf import), bytes.
 pub const MAX_READ_BYTES: u64 = 16 << 20;
 

@@ -10,6 +10,7 @@ enum ShellArg {
     Bash,
     Zsh,
     Fish,
+    Powershell,
 }
 
 /// Arguments of `ironwind completions`.
@@ -25,6 +26,7 @@ pub(super) fn run(out: &mut dyn Write, a: Args, mut cmd: clap::Command) -> Resul
         ShellArg::Bash => clap_complete::Shell::Bash,
         ShellArg::Zsh => clap_complete::Shell::Zsh,
         ShellArg::Fish => clap_complete::Shell::Fish,
+        ShellArg::Powershell => clap_complete::Shell::PowerShell,
     };
     let mut buf = Vec::new();
     clap_complete::generate(sh, &mut cmd, "ironwind", &mut buf);

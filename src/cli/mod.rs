@@ -17,6 +17,7 @@ mod completions;
 mod core;
 mod demo;
 mod diagnose;
+mod example;
 mod manpage;
 mod plan;
 mod probe;
@@ -114,6 +115,11 @@ enum Command {
         after_help = "Example:\n  ironwind diagnose examples/garage_charger.toml examples/measured/garage_charger.toml\n  ironwind diagnose job.toml measured.toml --format json\n  ironwind diagnose job.toml measured.toml --record 3   # keep the readings with shelf core 3"
     )]
     Diagnose(diagnose::Args),
+    /// List the bundled example jobs, or print one (they are built into the binary)
+    #[command(
+        after_help = "Example:\n  ironwind example\n  ironwind example pushpull_inverter_24v > job.toml"
+    )]
+    Example(example::Args),
     /// Plan the bundled example job end to end (no files needed)
     #[command(after_help = "Example:\n  ironwind demo\n  ironwind demo --format json")]
     Demo(demo::Args),
@@ -324,6 +330,7 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         Command::Manpage => manpage::run(out, Cli::command()),
         Command::Demo(a) => demo::run(out, a, &ctx),
         Command::Diagnose(a) => diagnose::run(out, a, &ctx),
+        Command::Example(a) => example::run(out, a),
     }
 }
 
@@ -367,20 +374,30 @@ fn not_an_input(output: &Path, inputs: &[&Path], flag: &str) -> Result<()> {
     Ok(())
 }
 
-/// Writes what a renderer writes into a file.
+/// Writes what a renderer writes into a file (`-`: standard output, as without the option).
 fn render_to_file(
     path: &Path,
     render: impl FnOnce(&mut dyn Write) -> std::io::Result<()>,
 ) -> Result<()> {
+    if path.as_os_str() == "-" {
+        let stdout = std::io::stdout();
+        let mut lock = stdout.lock();
+        render(&mut lock).map_err(out_err)?;
+        return lock.flush().map_err(out_err);
+    }
     let mut buf = Vec::new();
     render(&mut buf).map_err(|e| Error::io(path.display().to_string(), "cannot write", &e))?;
     write_file(path, &buf)
 }
 
-/// Reads and checks a job file; sweep paths are relative to the job file.
+/// Reads and checks a job file (`-`: standard input); sweep paths are relative to the job file.
 fn load_job(path: &Path) -> Result<Job> {
     let origin = path.display().to_string();
-    let text = crate::input::read_text(path)?;
+    let text = if path.as_os_str() == "-" {
+        crate::input::read_stdin()?
+    } else {
+        crate::input::read_text(path)?
+    };
     let base = path.parent().map(Path::to_path_buf).unwrap_or_default();
     let loader = |rel: &str| -> Result<(String, Vec<SweepPoint>)> {
         let p = base.join(rel);

@@ -9,11 +9,14 @@ use std::path::PathBuf;
 /// Arguments of `ironwind plan`.
 #[derive(Debug, clap::Args)]
 pub(super) struct Args {
-    /// The job file (TOML)
+    /// The job file (TOML; `-` reads standard input)
     job: PathBuf,
     /// Output format
     #[arg(long, value_enum, default_value_t = PlanFormat::Text)]
     format: PlanFormat,
+    /// Exit with code 3 when the verdict fails
+    #[arg(long)]
+    strict: bool,
 }
 
 pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
@@ -21,5 +24,5 @@ pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
     let p = plan(&job);
     check_windable(&p, &a.job.display().to_string())?;
     crate::render::plan::write(out, &p, a.format.format(), &ctx.look).map_err(out_err)?;
-    Ok(0)
+    Ok(if a.strict && !p.verdict.ok { 3 } else { 0 })
 }

@@ -303,11 +303,25 @@ fn turns_text(w: &WindingPlan) -> String {
 fn bench_lines(p: &Plan) -> Vec<String> {
     let mut v = Vec::new();
     for w in &p.windings {
-        v.push(format!(
-            "\"{}\": meter should read about {} ohm at 20 C once wound",
-            w.name,
-            sig3(w.resistance_20c_ohm)
-        ));
+        let r = w.resistance_20c_ohm;
+        v.push(if r < 0.5 {
+            // Below what a hand meter's leads read (common practice): a known current and a
+            // millivolt reading instead.
+            let amps = if r < 0.01 { 10.0 } else { 1.0 };
+            format!(
+                "\"{}\": about {} ohm at 20 C, too low for a hand meter: pass {} A from a current-limited supply and read about {} mV across it",
+                w.name,
+                sig3(r),
+                num(amps, 0),
+                sig3(r * amps * 1000.0)
+            )
+        } else {
+            format!(
+                "\"{}\": meter should read about {} ohm at 20 C once wound",
+                w.name,
+                sig3(r)
+            )
+        });
     }
     for w in p.windings.iter().filter(|w| w.role == Role::Secondary) {
         v.push(format!(
@@ -329,12 +343,29 @@ fn bench_lines(p: &Plan) -> Vec<String> {
     v
 }
 
-fn power_up_lines() -> Vec<&'static str> {
-    vec![
-        "First power-up: through a series lamp (or a current-limited supply), no load, fuse in place.",
-        "Lamp barely glows: measure the outputs. Lamp bright: stop, look for a short or a reversed half.",
-        "Then the rated voltage through the fuse, still no load; then the load. Feel for heat every few minutes.",
-    ]
+/// The first power-up: through a series lamp for a mains primary (a sine drive of 100 V or more:
+/// common practice), from a current-limited supply for a battery or inverter drive; and a true-RMS
+/// meter for a square or quasi-square drive (an average-reading meter misreads it).
+fn power_up_lines(p: &Plan) -> Vec<&'static str> {
+    let mains = matches!(p.drive.waveform, crate::magnetics::Waveform::Sine)
+        && p.drive.primary_rms_volts >= 100.0;
+    let mut v = if mains {
+        vec![
+            "First power-up: through a series lamp (or a current-limited supply), no load, fuse in place.",
+            "Lamp barely glows: measure the outputs. Lamp bright: stop, look for a short or a reversed half.",
+            "Then the rated voltage through the fuse, still no load; then the load. Feel for heat every few minutes.",
+        ]
+    } else {
+        vec![
+            "First power-up: from a current-limited bench supply (or the battery through a fuse sized for the idle current), no load.",
+            "Idle current small and steady: measure the outputs. Current at its limit: stop, look for a short or a reversed half.",
+            "Then the full supply through the proper fuse, still no load; then the load. Feel for heat every few minutes.",
+        ]
+    };
+    if !matches!(p.drive.waveform, crate::magnetics::Waveform::Sine) {
+        v.push("A square or quasi-square wave misreads on an average-responding meter: read its volts and amps with a true-RMS meter.");
+    }
+    v
 }
 
 fn verdict_line(p: &Plan) -> String {
@@ -548,7 +579,7 @@ fn text_cut_and_checks(p: &Plan, o: &CardOptions, bold: &dyn Fn(&str) -> String)
     for l in bench_lines(p) {
         s += &wrap(&l, width, "  ", "    ");
     }
-    for l in power_up_lines() {
+    for l in power_up_lines(p) {
         s += &wrap(l, width, "  ", "    ");
     }
     s
@@ -650,7 +681,7 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     for l in bench_lines(p) {
         let _ = writeln!(s, "- {}", md(&l));
     }
-    for l in power_up_lines() {
+    for l in power_up_lines(p) {
         let _ = writeln!(s, "- {l}");
     }
     let _ = writeln!(s, "\n**{}**\n", md(&verdict_line(p)));
@@ -1117,7 +1148,7 @@ fn html_cut_and_checks(p: &Plan, o: &CardOptions) -> String {
             sig3(i0)
         );
     }
-    for l in power_up_lines() {
+    for l in power_up_lines(p) {
         let _ = write!(s, "<li>{}</li>", esc(l));
     }
     s += "<li>After winding: the primary's volts, each output's no-load volts, each winding's ohms and the room temperature into a measurement file, then <code>ironwind diagnose</code>.</li>";

@@ -7,6 +7,7 @@ mod core_cmd;
 mod corpus;
 mod demo;
 mod diagnose;
+mod first_hour;
 mod golden;
 mod hostile;
 mod input_errors;
