@@ -209,6 +209,7 @@ pub fn quick_job(q: &QuickJob) -> Result<Job> {
         probe: None,
         load_duty: 1.0,
         cooling_factor: 1.0,
+        input_warnings: Vec::new(),
     })
 }
 

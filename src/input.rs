@@ -28,6 +28,34 @@ pub fn read_stdin() -> Result<String> {
     String::from_utf8(bytes).map_err(|_| Error::bad_input("standard input", "not UTF-8 text"))
 }
 
+/// The accepted word nearest `word`, when it is near enough to be a slip (an edit distance of at
+/// most a third of its length, and at least 1 and at most 3).
+pub fn did_you_mean<'a>(word: &str, accepted: &[&'a str]) -> Option<&'a str> {
+    let limit = (word.chars().count() / 3).clamp(1, 3);
+    accepted
+        .iter()
+        .map(|a| (edit_distance(word, a), *a))
+        .filter(|(d, _)| *d <= limit)
+        .min_by_key(|(d, _)| *d)
+        .map(|(_, a)| a)
+}
+
+/// Levenshtein distance (insertions, deletions and substitutions count one each).
+fn edit_distance(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut row: Vec<usize> = (0..=b.len()).collect();
+    for (i, ca) in a.chars().enumerate() {
+        let mut prev = row[0];
+        row[0] = i + 1;
+        for (j, cb) in b.iter().enumerate() {
+            let cur = row[j + 1];
+            row[j + 1] = (prev + usize::from(ca != *cb)).min(row[j] + 1).min(cur + 1);
+            prev = cur;
+        }
+    }
+    row[b.len()]
+}
+
 /// Largest text file read (job, sweep, shelf import), bytes.
 pub const MAX_READ_BYTES: u64 = 16 << 20;
 
@@ -73,7 +101,10 @@ pub fn read_text(path: &Path) -> Result<String> {
 
 /// Converts a TOML error to one line: file, line, key and the message.
 pub fn toml_error(origin: &str, text: &str, err: &toml::de::Error) -> Error {
-    let msg = err.message().replace('\n', " ");
+    let mut msg = err.message().replace('\n', " ");
+    if let Some(hint) = unknown_field_hint(&msg) {
+        msg += &hint;
+    }
     let Some(span) = err.span() else {
         return Error::bad_input(origin, msg);
     };
@@ -86,6 +117,18 @@ pub fn toml_error(origin: &str, text: &str, err: &toml::de::Error) -> Error {
     } else {
         Error::bad_input(origin, format!("line {line_no}: `{shown}`: {msg}"))
     }
+}
+
+/// "; did you mean `x`?" for serde's "unknown field `y`, expected one of `a`, `b`".
+fn unknown_field_hint(msg: &str) -> Option<String> {
+    let rest = msg.strip_prefix("unknown field `")?;
+    let (field, rest) = rest.split_once('`')?;
+    let list = rest.split_once("expected one of ")?.1;
+    let keys: Vec<&str> = list
+        .split(", ")
+        .map(|k| k.trim().trim_matches('`'))
+        .collect();
+    did_you_mean(field, &keys).map(|k| format!("; did you mean `{k}`?"))
 }
 
 /// A range check helper bound to one file.

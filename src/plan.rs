@@ -1248,7 +1248,7 @@ fn checks(
 
 /// Plans a job. Never fails on a checked job: a design that does not work is a verdict.
 pub fn plan(job: &Job) -> Plan {
-    let mut warnings = Vec::new();
+    let mut warnings = job.input_warnings.clone();
     let c = Ctx::new(job, &mut warnings);
     let mut st = initial_state(&c);
     let r = settle(&c, &mut st);

@@ -27,10 +27,13 @@ pub struct LengthInput {
 /// sentence saying what is accepted.
 pub fn parse_length_mm(text: &str) -> Result<f64, String> {
     const ACCEPTED: &str =
-        "a number of millimetres, or a number with a unit: mm, cm, m, in (\"1.25 in\")";
+        "a number of millimetres, or a number with a unit: mm, cm, m, in (\"1.25 in\", \"1 1/4 in\", \"3/4\\\"\")";
     let t = text.trim();
     if t.is_empty() {
         return Err(format!("empty length; expected {ACCEPTED}"));
+    }
+    if let Some(inches) = fractional_inches(t) {
+        return Ok(inches * MM_PER_INCH);
     }
     let split = t
         .find(|c: char| {
@@ -55,9 +58,34 @@ pub fn parse_length_mm(text: &str) -> Result<f64, String> {
         "cm" => 10.0,
         "m" => 1000.0,
         "in" | "inch" | "inches" | "\"" => MM_PER_INCH,
-        other => return Err(format!("unknown unit `{other}`; expected {ACCEPTED}")),
+        other => {
+            let hint =
+                crate::input::did_you_mean(other, &["mm", "cm", "m", "in", "inch", "inches"])
+                    .map(|k| format!(" (did you mean `{k}`?)"))
+                    .unwrap_or_default();
+            return Err(format!("unknown unit `{other}`{hint}; expected {ACCEPTED}"));
+        }
     };
     Ok(value * factor)
+}
+
+/// Inches written the way a US rule reads: `"1 1/4 in"`, `"1-1/4 in"`, `"3/4\""`, `"3/4 inch"`.
+/// None when the text has no fraction.
+fn fractional_inches(t: &str) -> Option<f64> {
+    let lower = t.to_ascii_lowercase();
+    let body = ["inches", "inch", "in", "\""]
+        .iter()
+        .find_map(|u| lower.strip_suffix(u))?
+        .trim();
+    let (whole, frac) = match body.rsplit_once([' ', '-']) {
+        Some((w, f)) if f.contains('/') => (w.trim(), f.trim()),
+        _ if body.contains('/') => ("0", body),
+        _ => return None,
+    };
+    let (num, den) = frac.split_once('/')?;
+    let (num, den): (u32, u32) = (num.trim().parse().ok()?, den.trim().parse().ok()?);
+    let whole: u32 = whole.parse().ok()?;
+    (den > 0 && num < den && den <= 128).then(|| whole as f64 + num as f64 / den as f64)
 }
 
 impl<'de> Deserialize<'de> for LengthInput {
@@ -98,6 +126,34 @@ impl<'de> Deserialize<'de> for LengthInput {
             }
         }
         d.deserialize_any(V)
+    }
+}
+
+#[cfg(test)]
+mod fraction_tests {
+    use super::*;
+
+    #[test]
+    fn fractional_inches_as_a_us_rule_reads_them() {
+        // 1 1/4 in = 1.25 in = 31.75 mm exactly (the inch is 25.4 mm by definition).
+        for (text, mm) in [
+            ("1 1/4 in", 31.75),
+            ("1-1/4 in", 31.75),
+            ("3/4\"", 19.05),
+            ("3/4 inch", 19.05),
+            ("2 1/2 inches", 63.5),
+        ] {
+            let got = parse_length_mm(text).expect(text);
+            assert!((got - mm).abs() < 1e-9, "{text}: {got}");
+        }
+        assert!(
+            parse_length_mm("5/4 in").is_err(),
+            "an improper fraction is refused"
+        );
+        let e = parse_length_mm("12 furlongs").expect_err("unknown");
+        assert!(e.contains("unknown unit"), "{e}");
+        let e = parse_length_mm("12 inc").expect_err("close");
+        assert!(e.contains("did you mean `in"), "{e}");
     }
 }
 

@@ -281,6 +281,13 @@ pub enum Warning {
         /// Where saturation begins, T.
         limit_t: f64,
     },
+    /// A core length under 5 given as a bare number: millimetres were read, inches were perhaps meant.
+    TinyLength {
+        /// The key.
+        key: String,
+        /// The value read, mm.
+        value_mm: f64,
+    },
     /// Many round strands in hand: strip would suit better.
     ManyStrands {
         /// The winding.

@@ -267,6 +267,8 @@ pub struct Job {
     /// How many times the heat a surface sheds by natural convection (1; 2 for forced air, common
     /// practice).
     pub cooling_factor: f64,
+    /// What reading the file raised without refusing it (a core length that looks like inches).
+    pub input_warnings: Vec<crate::verdict::Warning>,
 }
 
 impl Job {
@@ -352,7 +354,26 @@ pub fn parse_job(text: &str, origin: &str, load_sweep: SweepLoader) -> Result<Jo
         probe,
         load_duty: 1.0,
         cooling_factor: 1.0,
+        input_warnings: tiny_lengths(&raw.core),
     })
+}
+
+/// Core lengths under 5 given as bare numbers: a tongue of 1.5 mm is a 1.5-inch tongue typed
+/// without its unit far more often than a real one.
+fn tiny_lengths(rc: &RawCore) -> Vec<crate::verdict::Warning> {
+    [
+        ("[core] tongue_mm", &rc.tongue_mm),
+        ("[core] stack_mm", &rc.stack_mm),
+        ("[core] window_width_mm", &rc.window_width_mm),
+        ("[core] window_height_mm", &rc.window_height_mm),
+    ]
+    .iter()
+    .filter(|(_, l)| l.mm < 5.0 && l.text.parse::<f64>().is_ok())
+    .map(|(k, l)| crate::verdict::Warning::TinyLength {
+        key: k.to_string(),
+        value_mm: l.mm,
+    })
+    .collect()
 }
 
 /// `[core]`: the measured core, its steel and the bobbin wall.

@@ -368,6 +368,14 @@ fn power_up_lines(p: &Plan) -> Vec<&'static str> {
     v
 }
 
+/// The first thing a card of a failing design says.
+fn fail_banner(p: &Plan) -> String {
+    format!(
+        "DOES NOT PASS - DO NOT WIND THIS: {} fail. The turns below are what the plan computed, not a design to build; change the job and plan again.",
+        p.verdict.failed().join(", ")
+    )
+}
+
 fn verdict_line(p: &Plan) -> String {
     if p.losses.saturated {
         let failed = p.verdict.failed();
@@ -453,6 +461,11 @@ pub fn text_card(p: &Plan, o: &CardOptions) -> String {
     let mut s = String::new();
     s += &rule;
     s += "\n";
+    if !p.verdict.ok {
+        s += &bold(&wrap(&fail_banner(p), width, "", "  "));
+        s += &rule;
+        s += "\n";
+    }
     s += &wrap(&format!("WINDING CARD: {}", p.name), width, "", "  ");
     s += &wrap(&core_line(p, o.look.units), width, "", "  ");
     s += &wrap(&drive_line(p), width, "", "  ");
@@ -604,6 +617,9 @@ fn md(s: &str) -> String {
 /// The Markdown card.
 pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     let mut s = String::new();
+    if !p.verdict.ok {
+        let _ = writeln!(s, "> **{}**\n", md(&fail_banner(p)));
+    }
     let _ = writeln!(s, "# Winding card: {}\n", md(&p.name));
     let _ = writeln!(s, "{}  \n{}\n", core_line(p, o.look.units), drive_line(p));
     let _ = writeln!(s, "Wind in this order, innermost first, every winding in the **same direction**. Mark each start lead before the first turn.\n");
@@ -712,6 +728,22 @@ const PATTERNS: &[(&str, &str)] = &[
     (
         "hatch-d",
         r##"<pattern id="hatch-d" width="1.6" height="1.6" patternUnits="userSpaceOnUse" patternTransform="rotate(-45)"><rect width="1.6" height="1.6" fill="#f3eaf3"/><line x1="0" y1="0" x2="0" y2="1.6" stroke="#5b2a5b" stroke-width="0.35"/><line x1="0.8" y1="0" x2="0.8" y2="1.6" stroke="#5b2a5b" stroke-width="0.12"/></pattern>"##,
+    ),
+    (
+        "hatch-e",
+        r##"<pattern id="hatch-e" width="1.6" height="1.6" patternUnits="userSpaceOnUse"><rect width="1.6" height="1.6" fill="#fdf1e0"/><line x1="0" y1="0.8" x2="1.6" y2="0.8" stroke="#8a4b00" stroke-width="0.4"/></pattern>"##,
+    ),
+    (
+        "hatch-f",
+        r##"<pattern id="hatch-f" width="1.4" height="1.4" patternUnits="userSpaceOnUse"><rect width="1.4" height="1.4" fill="#e6f2f2"/><rect x="0.35" y="0.35" width="0.7" height="0.7" fill="#1f5f5f"/></pattern>"##,
+    ),
+    (
+        "hatch-g",
+        r##"<pattern id="hatch-g" width="1.8" height="1.8" patternUnits="userSpaceOnUse"><rect width="1.8" height="1.8" fill="#f5f5f5"/><path d="M0 0.9H1.8M0.9 0V1.8" stroke="#333" stroke-width="0.2"/></pattern>"##,
+    ),
+    (
+        "hatch-h",
+        r##"<pattern id="hatch-h" width="2" height="2" patternUnits="userSpaceOnUse" patternTransform="rotate(30)"><rect width="2" height="2" fill="#f7ecec"/><line x1="0" y1="0" x2="0" y2="2" stroke="#7a1f1f" stroke-width="0.7"/></pattern>"##,
     ),
 ];
 
@@ -991,10 +1023,24 @@ fn xsec_scale_bar(o: &mut String, f: &Frame) {
 
 /// The SVG file: the cross-section alone, with an XML declaration.
 pub fn svg_card(p: &Plan) -> String {
-    format!(
-        "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n{}\n",
-        cross_section_svg(p, 420.0)
-    )
+    // Sized in millimetres at 1:1 (the drawing's user unit is a millimetre), so it prints to
+    // scale and can be held against the bobbin.
+    let svg = cross_section_svg(p, 420.0);
+    let svg = match (svg.find("width=\""), svg.find("viewBox=\"0 0 ")) {
+        (Some(w), Some(vb)) if w < vb => {
+            let dims: Vec<&str> = svg[vb + 13..].split(['"', ' ']).take(2).collect();
+            match dims.as_slice() {
+                [vw, vh] => format!(
+                    "{}width=\"{vw}mm\" height=\"{vh}mm\" {}",
+                    &svg[..w],
+                    &svg[vb..]
+                ),
+                _ => svg,
+            }
+        }
+        _ => svg,
+    };
+    format!("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n{svg}\n")
 }
 
 const CSS: &str = r#"
@@ -1026,6 +1072,7 @@ td.n { text-align: right; }
 .two { display: flex; gap: 3mm; margin: 1mm 0; }
 .two > div { flex: 1 1 0; }
 h3 { font-size: 8pt; margin: 0.8mm 0 0.5mm 0; }
+.banner { font-weight: bold; font-size: 10pt; border: 0.8mm solid #000; background: #eee; padding: 1mm 2mm; margin: 0 0 1.5mm 0; }
 .verdict { font-weight: bold; font-size: 8.6pt; border: 0.5mm solid #000; padding: 0.8mm 1.5mm; margin: 1mm 0; }
 .verdict.fail { border-style: dashed; }
 ul { margin: 0; padding-left: 3.5mm; }
@@ -1180,6 +1227,9 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
         s,
         "<style>{CSS}</style></head><body><div class=\"page{density}\">"
     );
+    if !p.verdict.ok {
+        let _ = write!(s, "<div class=\"banner\">{}</div>", esc(&fail_banner(p)));
+    }
     let _ = write!(s, "<h1>Winding card: {}</h1>", esc(&p.name));
     let _ = write!(
         s,

@@ -151,6 +151,9 @@ pub fn warning(w: &Warning) -> String {
         Warning::PastSaturation { flux_t, limit_t } => format!(
             "the core runs at {flux_t:.2} T, past saturation (about {limit_t:.1} T for silicon steel): the magnetising current runs away, so the loss, heating and efficiency figures are not estimates of anything; lower the volts per turn (more primary turns)"
         ),
+        Warning::TinyLength { key, value_mm } => format!(
+            "{key} = {value_mm} was read as {value_mm} mm: did you mean inches? Write \"{value_mm} in\" (a string with its unit) if so"
+        ),
         Warning::ManyStrands { winding, strands } => format!(
             "\"{winding}\" needs {strands} strands in hand: consider strip conductor (strip_mm)"
         ),

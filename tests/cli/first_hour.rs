@@ -60,3 +60,96 @@ fn completions_for_every_shell() {
         assert!(out.contains("ironwind"), "{shell}");
     }
 }
+
+#[test]
+fn slips_get_a_hint() {
+    let d = crate::common::scratch("slips");
+    // A misspelt key: the message is whole and suggests the nearest key.
+    let typo = edited(GOOD_JOB, "tongue_mm = 32.0", "tongu_mm = 32.0");
+    run(&["plan", &crate::common::write(&d, "typo.toml", &typo)])
+        .code(2)
+        .one_line_error()
+        .stderr_has("did you mean `tongue_mm`?");
+    // A tongue of 1.5 read as millimetres: planned, with a warning that asks about inches.
+    let inch = edited(GOOD_JOB, "tongue_mm = 32.0", "tongue_mm = 1.5");
+    let j = run(&[
+        "plan",
+        &crate::common::write(&d, "inch.toml", &inch),
+        "--format",
+        "json",
+    ])
+    .ok()
+    .json();
+    assert!(
+        j["warnings"].to_string().contains("did you mean inches?"),
+        "{}",
+        j["warnings"]
+    );
+    // Fractional inches as a US rule reads them: 1 1/4 in = 31.75 mm.
+    let frac = edited(GOOD_JOB, "tongue_mm = 32.0", "tongue_mm = \"1 1/4 in\"");
+    let j = run(&[
+        "plan",
+        &crate::common::write(&d, "frac.toml", &frac),
+        "--format",
+        "json",
+    ])
+    .ok()
+    .json();
+    assert_eq!(j["core"]["tongue_mm"], 31.75);
+}
+
+#[test]
+fn a_card_that_does_not_pass_says_so_first() {
+    let d = crate::common::scratch("banner");
+    let bad = edited(GOOD_JOB, "amps = 4.0", "amps = 40.0");
+    let p = crate::common::write(&d, "bad.toml", &bad);
+    let text = run(&["card", &p]).ok().stdout;
+    let first_words = text
+        .lines()
+        .find(|l| l.chars().any(char::is_alphanumeric))
+        .expect("text");
+    assert!(
+        first_words.starts_with("DOES NOT PASS - DO NOT WIND THIS"),
+        "{first_words}"
+    );
+    let html = run(&["card", &p, "--format", "html"]).ok().stdout;
+    let banner = html.find("class=\"banner\"").expect("banner");
+    assert!(
+        banner < html.find("<h1>").expect("title"),
+        "the banner comes before the title"
+    );
+    let good = run(&["card", "examples/garage_charger.toml"]).ok().stdout;
+    assert!(!good.contains("DO NOT WIND"));
+}
+
+#[test]
+fn the_svg_is_drawn_in_millimetres() {
+    // Sized in mm at 1:1 (the drawing's unit is the millimetre): it prints to scale.
+    let svg = run(&["card", "examples/garage_charger.toml", "--format", "svg"])
+        .ok()
+        .stdout;
+    let doc = roxmltree::Document::parse(&svg).expect("svg");
+    let root = doc.root_element();
+    let vb: Vec<f64> = root
+        .attribute("viewBox")
+        .expect("viewBox")
+        .split(' ')
+        .map(|v| v.parse().expect("n"))
+        .collect();
+    assert_eq!(
+        root.attribute("width"),
+        Some(format!("{:.2}mm", vb[2]).as_str())
+    );
+    assert_eq!(
+        root.attribute("height"),
+        Some(format!("{:.2}mm", vb[3]).as_str())
+    );
+    // Eight windings, eight different hatchings.
+    let ids: std::collections::HashSet<&str> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("pattern"))
+        .filter_map(|n| n.attribute("id"))
+        .filter(|id| id.starts_with("hatch-"))
+        .collect();
+    assert_eq!(ids.len(), 8);
+}
