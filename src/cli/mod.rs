@@ -19,6 +19,7 @@ mod demo;
 mod diagnose;
 mod example;
 mod manpage;
+mod new;
 mod plan;
 mod probe;
 mod rate;
@@ -115,6 +116,12 @@ enum Command {
         after_help = "Example:\n  ironwind diagnose examples/garage_charger.toml examples/measured/garage_charger.toml\n  ironwind diagnose job.toml measured.toml --format json\n  ironwind diagnose job.toml measured.toml --record 3   # keep the readings with shelf core 3"
     )]
     Diagnose(diagnose::Args),
+    /// Start a job file: asks for the core, supply and windings (or takes them as flags)
+    #[command(
+        allow_negative_numbers = true,
+        after_help = "Examples:\n  ironwind new                      # asks, writes job.toml\n  ironwind new charger.toml --tongue 32 --stack 40 --window 16x48 --primary 230 --output 18:6\n  ironwind new - --tongue \"1.25 in\" --stack \"1.5 in\" --window 0.625inx1.875in --frequency 60 --primary 120 --output main=24:2:ct"
+    )]
+    New(new::Args),
     /// List the bundled example jobs, or print one (they are built into the binary)
     #[command(
         after_help = "Example:\n  ironwind example\n  ironwind example pushpull_inverter_24v > job.toml"
@@ -331,6 +338,7 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         Command::Demo(a) => demo::run(out, a, &ctx),
         Command::Diagnose(a) => diagnose::run(out, a, &ctx),
         Command::Example(a) => example::run(out, a),
+        Command::New(a) => new::run(out, a, &ctx),
     }
 }
 

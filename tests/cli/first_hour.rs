@@ -153,3 +153,104 @@ fn the_svg_is_drawn_in_millimetres() {
         .collect();
     assert_eq!(ids.len(), 8);
 }
+
+#[test]
+fn new_writes_a_job_that_plans() {
+    let d = crate::common::scratch("new");
+    let flags = [
+        "new",
+        "--tongue",
+        "1 1/4 in",
+        "--stack",
+        "40",
+        "--window",
+        "16x48",
+        "--primary",
+        "230",
+        "--output",
+        "low=18:4",
+        "--output",
+        "12:1:ct",
+    ];
+    crate::common::run_in(&d, &flags, &[])
+        .ok()
+        .stderr_has("wrote job.toml")
+        .stderr_has("ironwind plan job.toml");
+    let text = std::fs::read_to_string(d.join("job.toml")).expect("written");
+    // 1 1/4 in = 31.75 mm (1 in = 25.4 mm exactly, NIST SP 811 B.8).
+    assert!(text.contains("tongue_mm = 31.75"), "{text}");
+    let plan = crate::common::run_in(&d, &["plan", "job.toml", "--format", "json"], &[])
+        .ok()
+        .json();
+    let names: Vec<&str> = plan["windings"]
+        .as_array()
+        .expect("windings")
+        .iter()
+        .filter_map(|w| w["name"].as_str())
+        .collect();
+    assert_eq!(names, ["primary", "low", "out2"]);
+    // A second run does not write over the first.
+    crate::common::run_in(&d, &flags, &[])
+        .code(2)
+        .one_line_error()
+        .stderr_has("--force");
+    // Without a terminal nothing is asked: a missing answer names its flag.
+    crate::common::run_in(&d, &["new", "other.toml", "--tongue", "32"], &[])
+        .code(2)
+        .one_line_error()
+        .stderr_has("--stack");
+    // To standard output, with the inch slip warned.
+    let r = run(&[
+        "new",
+        "-",
+        "--tongue",
+        "1.5",
+        "--stack",
+        "40",
+        "--window",
+        "16x48",
+        "--primary",
+        "230",
+        "--output",
+        "18:4",
+    ])
+    .ok()
+    .stderr_has("did you mean inches");
+    run_with(&["plan", "-"], Some(r.stdout.as_bytes()), &[]).ok();
+}
+
+#[test]
+fn new_asks_on_a_terminal() {
+    // `script` (util-linux) gives the child a pseudo-terminal; without it this check is skipped.
+    let have_script = std::process::Command::new("script")
+        .arg("--version")
+        .output()
+        .is_ok_and(|o| o.status.success());
+    if !have_script {
+        eprintln!("skipped: no `script` to give ironwind a terminal");
+        return;
+    }
+    let d = crate::common::scratch("new-tty");
+    let bin = env!("CARGO_BIN_EXE_ironwind");
+    let answers = "bench job\n\n32\n40\n16x48\n\n60\n\n120\n24:2\n\n";
+    let mut child = std::process::Command::new("script")
+        .args(["-qec", &format!("{bin} new asked.toml"), "/dev/null"])
+        .current_dir(&d)
+        .stdin(std::process::Stdio::piped())
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .expect("script runs");
+    if let Some(mut s) = child.stdin.take() {
+        use std::io::Write;
+        let _ = s.write_all(answers.as_bytes());
+    }
+    let out = child.wait_with_output().expect("script finishes");
+    let shown = String::from_utf8_lossy(&out.stdout);
+    assert!(shown.contains("Tongue width, mm"), "{shown}");
+    let text = std::fs::read_to_string(d.join("asked.toml")).expect("written");
+    assert!(text.contains("name = \"bench job\""), "{text}");
+    assert!(text.contains("frequency_hz = 60"), "{text}");
+    assert!(text.contains("volts = 120"), "{text}");
+    crate::common::run_in(&d, &["plan", "asked.toml"], &[]).ok();
+}
