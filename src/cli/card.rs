@@ -4,11 +4,19 @@ use super::{load_job, out_err, render_to_file, Ctx};
 use crate::error::Result;
 use crate::flags::flag_in;
 use crate::plan::{check_windable, plan};
-use crate::render::card::{self, CardOptions};
+use crate::render::card::{self, CardOptions, Paper};
 use crate::render::Format;
 use clap::ValueEnum;
 use std::io::Write;
 use std::path::PathBuf;
+
+/// `--paper`.
+#[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
+enum PaperArg {
+    A5,
+    A4,
+    Letter,
+}
 
 #[derive(Debug, Clone, Copy, ValueEnum, PartialEq, Eq)]
 enum CardFormat {
@@ -32,6 +40,9 @@ pub(super) struct Args {
     /// Spare allowance on the buy list, per cent (0 to 100)
     #[arg(long, default_value_t = 10.0)]
     spare: f64,
+    /// The sheet the HTML card is laid out for (one page, printed at 100 %)
+    #[arg(long, value_enum, default_value_t = PaperArg::A5)]
+    paper: PaperArg,
 }
 
 pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
@@ -54,6 +65,12 @@ pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
     let opts = CardOptions {
         spare: spare / 100.0,
         look,
+        paper: match a.paper {
+            PaperArg::A5 => Paper::A5,
+            PaperArg::A4 => Paper::A4,
+            PaperArg::Letter => Paper::Letter,
+        },
+        date: super::today(),
     };
     match &a.output {
         Some(path) => render_to_file(path, |w| card::write(w, &p, format, &opts))?,

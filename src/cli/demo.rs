@@ -26,8 +26,9 @@ pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
     let p = plan(&job);
     if a.card {
         let opts = CardOptions {
-            spare: 0.10,
             look: ctx.look,
+            date: super::today(),
+            ..CardOptions::default()
         };
         card::write(out, &p, Format::Text, &opts).map_err(out_err)?;
         return Ok(0);

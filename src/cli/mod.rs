@@ -428,3 +428,49 @@ fn note(ctx: &Ctx, line: &str) {
 fn say(line: &str) {
     let _ = writeln!(std::io::stderr(), "{line}");
 }
+
+/// Today's date (UTC) for a card's footer: `SOURCE_DATE_EPOCH` when set (reproducible output, as
+/// reproducible-builds.org specifies it), else the clock. Days to a civil date by H. Hinnant's
+/// `civil_from_days` (proleptic Gregorian calendar).
+fn today() -> Option<(i64, u32, u32)> {
+    let secs: i64 = match std::env::var("SOURCE_DATE_EPOCH") {
+        Ok(v) => v.trim().parse().ok()?,
+        Err(_) => std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .ok()?
+            .as_secs()
+            .try_into()
+            .ok()?,
+    };
+    Some(civil_from_days(secs.div_euclid(86_400)))
+}
+
+/// Days since 1970-01-01 to (year, month, day).
+fn civil_from_days(days: i64) -> (i64, u32, u32) {
+    let z = days + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z.rem_euclid(146_097);
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = (doy - (153 * mp + 2) / 5 + 1) as u32;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 } as u32;
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    (y, m, d)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::civil_from_days;
+
+    #[test]
+    fn civil_dates_from_unix_days() {
+        // Reference dates: the Unix epoch; 2000-03-01 (day 11 017) after a century leap day;
+        // 2026-12-02 = 1 796 169 600 s / 86 400 (POSIX time, IEEE Std 1003.1 "Seconds Since the Epoch").
+        assert_eq!(civil_from_days(0), (1970, 1, 1));
+        assert_eq!(civil_from_days(11_017), (2000, 3, 1));
+        assert_eq!(civil_from_days(10_956), (1999, 12, 31));
+        assert_eq!(civil_from_days(20_789), (2026, 12, 2));
+        assert_eq!(civil_from_days(-1), (1969, 12, 31));
+    }
+}

@@ -14,6 +14,40 @@ use crate::plan::{Plan, WindingPlan};
 use crate::wire::{Conductor, KeptCopper};
 use std::fmt::Write as _;
 
+/// The sheet an HTML card is printed on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Paper {
+    /// ISO 216 A5, 148 mm × 210 mm.
+    #[default]
+    A5,
+    /// ISO 216 A4, 210 mm × 297 mm.
+    A4,
+    /// US Letter, 8.5 in × 11 in (215.9 mm × 279.4 mm).
+    Letter,
+}
+
+impl Paper {
+    /// Width and height, mm (ISO 216; Letter from its inches, 1 in = 25.4 mm).
+    pub fn size_mm(self) -> (f64, f64) {
+        match self {
+            Paper::A5 => (148.0, 210.0),
+            Paper::A4 => (210.0, 297.0),
+            Paper::Letter => (215.9, 279.4),
+        }
+    }
+    /// The CSS `@page` size keyword.
+    fn css(self) -> &'static str {
+        match self {
+            Paper::A5 => "A5 portrait",
+            Paper::A4 => "A4 portrait",
+            Paper::Letter => "letter portrait",
+        }
+    }
+}
+
+/// The printed margin on every side, mm.
+const MARGIN_MM: f64 = 7.0;
+
 /// Card options.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct CardOptions {
@@ -21,6 +55,10 @@ pub struct CardOptions {
     pub spare: f64,
     /// Characters, units, colour (bold headings on a terminal) and width.
     pub look: Look,
+    /// The sheet the HTML card is laid out for.
+    pub paper: Paper,
+    /// The date printed in the footer (year, month, day), when known.
+    pub date: Option<(i64, u32, u32)>,
 }
 
 impl Default for CardOptions {
@@ -28,8 +66,23 @@ impl Default for CardOptions {
         CardOptions {
             spare: 0.10,
             look: Look::default(),
+            paper: Paper::A5,
+            date: None,
         }
     }
+}
+
+/// The footer every card ends with: the job, the date, the tool's version.
+pub fn footer_line(p: &Plan, o: &CardOptions) -> String {
+    let date = match o.date {
+        Some((y, m, d)) => format!("{y:04}-{m:02}-{d:02}"),
+        None => "date not known".into(),
+    };
+    format!(
+        "{} · {date} · ironwind {}",
+        p.name,
+        env!("CARGO_PKG_VERSION")
+    )
 }
 
 impl CardOptions {
@@ -46,10 +99,22 @@ pub fn write(
     o: &CardOptions,
 ) -> std::io::Result<()> {
     let text = match format {
-        Format::Markdown => markdown_card(p, o),
+        Format::Markdown => format!(
+            "{}\n---\n\n{}\n",
+            markdown_card(p, o).trim_end(),
+            md(&footer_line(p, o))
+        ),
         Format::Html => html_card(p, o),
         Format::Svg => svg_card(p),
-        _ => text_card(p, o),
+        _ => {
+            let foot = footer_line(p, o);
+            let foot = if o.ascii() {
+                foot.replace('·', "-")
+            } else {
+                foot
+            };
+            format!("{}\n\n{foot}\n", text_card(p, o).trim_end())
+        }
     };
     out.write_all(text.as_bytes())
 }
@@ -776,10 +841,6 @@ pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
     // Drawing in mm with a margin for the tongue strip, labels and the scale bar.
     let tongue_strip = 6.0f64.min(c.tongue_mm / 2.0);
     let margin = 4.0;
-    let label_w = 30.0;
-    let vb_w = tongue_strip + avail_w + label_w + 2.0 * margin;
-    let vb_h = h + 2.0 * margin + 10.0 + 6.0;
-    let px_h = width_px * vb_h / vb_w;
     let f = Frame {
         x0: margin + tongue_strip,
         y0: margin,
@@ -788,6 +849,19 @@ pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
         avail_w,
         h,
     };
+    // The body first: the legend goes right of everything drawn (an overflow included), and the
+    // view box grows to hold the drawing, the legend and the scale bar, whatever their count.
+    let mut body = String::new();
+    xsec_steel_and_bobbin(&mut body, p, &f, margin, tongue_strip);
+    let x = xsec_windings(&mut body, p, &f);
+    let reach = xsec_outer(&mut body, p, &f, x);
+    body += "<g class=\"legend\">";
+    let (legend_w, legend_bottom) = xsec_legend(&mut body, p, &f, reach + 3.0);
+    body += "</g>";
+    xsec_scale_bar(&mut body, &f);
+    let vb_w = reach + 3.0 + legend_w + margin;
+    let vb_h = (h + 2.0 * margin + 12.0).max(legend_bottom + margin);
+    let px_h = width_px * vb_h / vb_w;
     let mut o = String::new();
     let _ = write!(
         o,
@@ -799,11 +873,7 @@ pub fn cross_section_svg(p: &Plan, width_px: f64) -> String {
     }
     o += r##"<pattern id="steel" width="1.5" height="1.5" patternUnits="userSpaceOnUse"><rect width="1.5" height="1.5" fill="#9a9a9a"/><line x1="0" y1="1.5" x2="1.5" y2="0" stroke="#666" stroke-width="0.2"/></pattern>"##;
     o += "</defs>";
-    xsec_steel_and_bobbin(&mut o, p, &f, margin, tongue_strip);
-    let x = xsec_windings(&mut o, p, &f);
-    let end = xsec_outer(&mut o, p, &f, x);
-    xsec_legend(&mut o, p, &f, end + 4.0);
-    xsec_scale_bar(&mut o, &f);
+    o += &body;
     o += "</svg>";
     o
 }
@@ -882,7 +952,10 @@ fn xsec_windings(o: &mut String, p: &Plan, f: &Frame) -> f64 {
         }
         // Label: number in a white box at the middle.
         let cx = start + b / 2.0;
-        let cy = top + 4.0 + (k as f64 * 5.0) % (band - 6.0).max(1.0);
+        // Numbers stepped down the band, so neighbours' boxes do not sit on each other.
+        let n = p.windings.len().max(1) as f64;
+        let step = ((band - 6.0) / n).max(4.0);
+        let cy = top + 4.0 + (k as f64 * step) % (band - 6.0).max(1.0);
         let _ = write!(
             o,
             r##"<rect x="{:.2}" y="{:.2}" width="4" height="3.6" fill="white" stroke="#000" stroke-width="0.15"/><text x="{cx:.2}" y="{:.2}" text-anchor="middle" font-weight="bold">{}</text>"##,
@@ -929,8 +1002,8 @@ fn xsec_split_parts(
     }
 }
 
-/// The outer wrap, the clearance (or the overflow past the window) and the outer leg; returns the
-/// window's outer edge.
+/// The outer wrap, the clearance (or the overflow past the window) and the outer leg; returns how
+/// far right the drawing reaches (the outer leg's far side, or an overflow's end).
 fn xsec_outer(o: &mut String, p: &Plan, f: &Frame, x: f64) -> f64 {
     let (coil_top, traverse, y0) = (f.coil_top, f.traverse, f.y0);
     let h = p.core.window_height_mm;
@@ -966,11 +1039,11 @@ fn xsec_outer(o: &mut String, p: &Plan, f: &Frame, x: f64) -> f64 {
         o,
         r#"<rect x="{end:.2}" y="{y0:.2}" width="2" height="{h:.2}" fill="url(#steel)"/>"#
     );
-    end
+    (end + 2.0).max(x)
 }
 
 /// The legend at the right: each winding's pattern, insulation and bobbin.
-fn xsec_legend(o: &mut String, p: &Plan, f: &Frame, lx: f64) {
+fn xsec_legend(o: &mut String, p: &Plan, f: &Frame, lx: f64) -> (f64, f64) {
     let y0 = f.y0;
     let key = |o: &mut String, ly: f64, fill: &str, stroke: &str, width: f64, text: &str| {
         let _ = write!(
@@ -980,23 +1053,30 @@ fn xsec_legend(o: &mut String, p: &Plan, f: &Frame, lx: f64) {
             ly + 3.2
         );
     };
+    // Text width at font size 2.6: about 0.6 of the size per character (a sans-serif's mean).
+    let mut longest = "insulation".len();
     for (k, w) in p.windings.iter().enumerate() {
         let (pat, _) = PATTERNS[k % PATTERNS.len()];
         let ly = y0 + 2.0 + k as f64 * 6.0;
-        let text = format!("{} {}", k + 1, esc(&w.name));
-        key(o, ly, &format!("url(#{pat})"), "#000", 0.2, &text);
+        let name = format!("{} {}", k + 1, w.name);
+        longest = longest.max(name.chars().count());
+        key(o, ly, &format!("url(#{pat})"), "#000", 0.2, &esc(&name));
     }
     let ly = y0 + 2.0 + p.windings.len() as f64 * 6.0;
     key(o, ly, "#fff7b0", "#8a7a00", 0.2, "insulation");
     let ly = ly + 6.0;
     key(o, ly, "#c8b38a", "#5a4a2a", 0.2, "bobbin");
+    let mut bottom = ly + 5.0;
     if p.core.shape == Shape::Ui {
         let _ = write!(
             o,
             r#"<text x="{lx:.2}" y="{:.2}" font-size="2.2">U-I: one leg's half</text>"#,
             ly + 9.0
         );
+        bottom = ly + 10.0;
+        longest = longest.max(16);
     }
+    (5.0 + longest as f64 * 2.6 * 0.6, bottom)
 }
 
 /// A scale bar: a round number of mm near a third of the window width.
@@ -1015,8 +1095,8 @@ fn xsec_scale_bar(o: &mut String, f: &Frame) {
         by + 1.2,
         by - 1.2,
         by + 1.2,
-        x1 + 1.5,
-        by + 1.0,
+        x0,
+        by + 4.2,
         num(bar, 0)
     );
 }
@@ -1044,18 +1124,15 @@ pub fn svg_card(p: &Plan) -> String {
 }
 
 const CSS: &str = r#"
-@page { size: A5 portrait; margin: 7mm; }
+.foot { font-size: 6pt; border-top: 0.2mm solid #777; margin-top: 1.5mm; padding-top: 0.5mm; display: flex; justify-content: space-between; }
 * { box-sizing: border-box; }
 html, body { margin: 0; padding: 0; }
 body { font-family: "DejaVu Sans", "Liberation Sans", Arial, sans-serif; font-size: 7.6pt; line-height: 1.22; color: #000; background: #fff; }
-.page { width: 134mm; }
 h1 { font-size: 12pt; margin: 0 0 1mm 0; }
 .sub { font-size: 7.4pt; margin: 0 0 1.5mm 0; }
 .order { font-size: 7.4pt; margin: 0 0 1.5mm 0; font-weight: bold; }
 .top { display: flex; gap: 3mm; align-items: flex-start; }
-.windings { flex: 1 1 auto; }
-.xsec-box { flex: 0 0 38mm; text-align: center; font-size: 6.4pt; }
-.xsec-box svg { width: 38mm; height: auto; max-height: 80mm; }
+.windings { flex: 1 1 auto; min-width: 0; }
 .w { border: 0.35mm solid #000; border-radius: 1mm; padding: 1mm 1.5mm; margin: 0 0 1.5mm 0; page-break-inside: avoid; }
 .w h2 { font-size: 8.4pt; margin: 0 0 0.5mm 0; }
 .turns { font-size: 15pt; font-weight: bold; }
@@ -1130,15 +1207,19 @@ fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool) -> String {
             w.coil.layers
         );
         let _ = write!(s, "<div>{}</div>", esc(&wire_text(w)));
-        s += "<div class=\"row\"><table class=\"cpt\"><tr><th>layer</th>";
-        for k in 1..=w.coil.checkpoints.len() {
-            let _ = write!(s, "<td>{k}</td>");
+        // Twelve layers to a table: more wrap onto the next row, never past the page's edge.
+        s += "<div class=\"row\">";
+        for (c, chunk) in w.coil.checkpoints.chunks(12).enumerate() {
+            s += "<table class=\"cpt\"><tr><th>layer</th>";
+            for k in 1..=chunk.len() {
+                let _ = write!(s, "<td>{}</td>", c * 12 + k);
+            }
+            s += "</tr><tr><th>ends at turn</th>";
+            for t in chunk {
+                let _ = write!(s, "<td class=\"cp\">{t}</td>");
+            }
+            s += "</tr></table>";
         }
-        s += "</tr><tr><th>ends at turn</th>";
-        for t in &w.coil.checkpoints {
-            let _ = write!(s, "<td class=\"cp\">{t}</td>");
-        }
-        s += "</tr></table>";
         if let Some(t) = tap_text(w) {
             let _ = write!(s, "<div class=\"tpl\">Taps: {}</div>", esc(&t));
         }
@@ -1216,6 +1297,9 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
             .sum::<usize>()
         + p.warnings.len()
         + usize::from(p.core.shape == Shape::Ui);
+    // A bigger sheet holds more before the type must shrink.
+    let room = (o.paper.size_mm().1 - 2.0 * MARGIN_MM) / 196.0;
+    let load = (load as f64 / room).round() as usize;
     let density = if load > 12 {
         " denser"
     } else if load > 8 {
@@ -1223,9 +1307,17 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
     } else {
         ""
     };
+    // The page and the cross-section take the room the sheet has (the drawing about 28 % of the
+    // printable width, up to 40 % of its height).
+    let (paper_w, paper_h) = o.paper.size_mm();
+    let page_w = paper_w - 2.0 * MARGIN_MM;
+    let page_h = paper_h - 2.0 * MARGIN_MM;
+    let xsec_w = (page_w * 0.28).round();
     let _ = write!(
         s,
-        "<style>{CSS}</style></head><body><div class=\"page{density}\">"
+        "<style>@page {{ size: {}; margin: {MARGIN_MM}mm; }}\n.page {{ width: {page_w:.1}mm; }}\n.xsec-box {{ flex: 0 0 {xsec_w}mm; text-align: center; font-size: 6.4pt; }}\n.xsec-box svg {{ width: {xsec_w}mm; height: auto; max-height: {:.0}mm; }}\n{CSS}</style></head><body><div class=\"page{density}\">",
+        o.paper.css(),
+        page_h * 0.4
     );
     if !p.verdict.ok {
         let _ = write!(s, "<div class=\"banner\">{}</div>", esc(&fail_banner(p)));
@@ -1268,10 +1360,21 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
     for c in p.cautions {
         let _ = write!(s, "<li>{}</li>", esc(c));
     }
-    s += "</ul></div>";
-    // Last resort for an unusually long card: draw the page smaller inside a box of the printable
-    // height of A5 (210 mm less two 7 mm margins), so it still prints on one page at 100 % scale.
-    s += "<script>(function(){var p=document.querySelector('.page');if(!p)return;var mm=96/25.4,avail=195*mm;var h=p.getBoundingClientRect().height;if(h>avail){var r=Math.max(0.5,0.92*avail/h);var f=document.createElement('div');f.className='fit';f.style.height=avail+'px';f.style.overflow='hidden';p.parentNode.insertBefore(f,p);f.appendChild(p);p.style.transformOrigin='0 0';p.style.transform='scale('+r+')';}})();</script>";
+    s += "</ul>";
+    let _ = write!(
+        s,
+        "<div class=\"foot\"><span>{}</span><span>not a safety approval: follow local codes</span></div>",
+        esc(&footer_line(p, o))
+    );
+    s += "</div>";
+    // Last resort for an unusually long card: draw the page smaller inside a box of the sheet's
+    // printable height (less 1 mm), so it still prints on one page at 100 % scale.
+    let _ = write!(
+        s,
+        "<script>var ironwindAvailMm={:.1};</script>",
+        page_h - 1.0
+    );
+    s += "<script>(function(){var p=document.querySelector('.page');if(!p)return;var mm=96/25.4,avail=ironwindAvailMm*mm;var h=p.getBoundingClientRect().height;if(h>avail){var r=Math.max(0.5,0.92*avail/h);var f=document.createElement('div');f.className='fit';f.style.height=avail+'px';f.style.overflow='hidden';p.parentNode.insertBefore(f,p);f.appendChild(p);p.style.transformOrigin='0 0';p.style.transform='scale('+r+')';}})();</script>";
     s += "</body></html>\n";
     s
 }

@@ -210,7 +210,7 @@ fn every_command_prints_what_its_golden_file_holds() {
     let bless = std::env::var_os("IRONWIND_BLESS").is_some();
     let mut differ = Vec::new();
     for (name, args) in CASES {
-        let r = run_with(args, None, &[]);
+        let r = run_with(args, None, &[("SOURCE_DATE_EPOCH", "1796169600")]);
         assert_eq!(r.code, 0, "{name}: {}", r.stderr);
         let path = root().join("tests/golden").join(name);
         if bless {
