@@ -151,7 +151,9 @@ pub fn probe_text(r: &ProbeReport, look: &Look) -> String {
     s
 }
 
-/// The sweep as a log-log SVG chart: the curve, both knees and the recommended operating point.
+/// The sweep as a log-log SVG chart the way an excitation curve is drawn: exciting current across,
+/// winding volts up, with the peak flux density those volts mean on a second scale at the right;
+/// both knees and the recommended operating point as horizontal lines.
 pub fn sweep_chart(run: &ProbeReport) -> String {
     use super::svg::{chart, Chart, Marker, Scale, Series};
     let vpt = run
@@ -159,10 +161,12 @@ pub fn sweep_chart(run: &ProbeReport) -> String {
         .first()
         .map(|p| p.volts / p.flux_t)
         .unwrap_or(1.0);
+    let tesla_per_volt = Some(1.0 / vpt).filter(|k| k.is_finite() && *k > 0.0);
     let mut markers = Vec::new();
     if let (Some(v), Some(b)) = (run.knee_volts, run.knee_flux_t) {
         markers.push(Marker {
             x: v,
+            horizontal: true,
             label: format!("IEC knee {v:.1} V, {b:.2} T"),
             dash: "8 4",
         });
@@ -170,6 +174,7 @@ pub fn sweep_chart(run: &ProbeReport) -> String {
     if let (Some(v), Some(b)) = (run.tangent_volts, run.tangent_flux_t) {
         markers.push(Marker {
             x: v,
+            horizontal: true,
             label: format!("45° tangent {v:.1} V, {b:.2} T"),
             dash: "2 3",
         });
@@ -177,6 +182,7 @@ pub fn sweep_chart(run: &ProbeReport) -> String {
     if let Some(b) = run.recommended_flux_t {
         markers.push(Marker {
             x: b * vpt,
+            horizontal: true,
             label: format!("recommended max {b:.2} T"),
             dash: "",
         });
@@ -187,14 +193,15 @@ pub fn sweep_chart(run: &ProbeReport) -> String {
             run.sweep_turns.unwrap_or(0),
             run.frequency_hz
         ),
-        x_label: "winding voltage (V RMS), log scale".into(),
-        y_label: "exciting current (A RMS), log scale".into(),
-        y2_label: None,
+        x_label: "exciting current (A RMS), log scale".into(),
+        y_label: "winding voltage (V RMS), log scale".into(),
+        y2_label: tesla_per_volt.map(|_| "peak flux density (T)".into()),
+        y2_mirror: tesla_per_volt,
         x_scale: Scale::Log,
         y_scale: Scale::Log,
         series: vec![Series {
             label: "measured".into(),
-            points: run.points.iter().map(|p| (p.volts, p.amps)).collect(),
+            points: run.points.iter().map(|p| (p.amps, p.volts)).collect(),
             dots: true,
             dash: "",
             colour: "#1f4e79",

@@ -179,6 +179,7 @@ pub fn flux_chart(r: &Rating) -> String {
         x_label: "peak flux density (T)".into(),
         y_label: "capacity (VA)".into(),
         y2_label: Some("total loss at capacity (W)".into()),
+        y2_mirror: None,
         x_scale: Scale::Linear,
         y_scale: Scale::Linear,
         series: vec![
@@ -201,6 +202,7 @@ pub fn flux_chart(r: &Rating) -> String {
         ],
         markers: vec![Marker {
             x: b,
+            horizontal: false,
             label: format!("chosen flux {b:.2} T"),
             dash: "2 2",
         }],

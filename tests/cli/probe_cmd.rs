@@ -149,13 +149,27 @@ fn sweep_knee_matches_the_iec_definition_on_unsorted_duplicated_points() {
         .filter(|n| n.has_tag_name("text"))
         .filter_map(|n| n.text())
         .collect();
+    // The excitation curve as it is usually drawn (CT excitation curves in IEEE C57.13, from memory):
+    // current across, volts up, and the flux those volts mean on the right.
+    let axis_label = |rotated: Option<&str>| {
+        doc.descendants()
+            .filter(|n| n.attribute("class") == Some("axis-label"))
+            .find(|n| match rotated {
+                None => n.attribute("transform").is_none(),
+                Some(r) => n.attribute("transform").is_some_and(|t| t.starts_with(r)),
+            })
+            .and_then(|n| n.text())
+            .unwrap_or("")
+            .to_string()
+    };
+    assert!(axis_label(None).contains("(A RMS)"), "current across");
     assert!(
-        labels.iter().any(|l| l.contains("(V RMS)")),
-        "x axis labelled with its unit"
+        axis_label(Some("rotate(-90")).contains("(V RMS)"),
+        "volts up"
     );
     assert!(
-        labels.iter().any(|l| l.contains("(A RMS)")),
-        "y axis labelled with its unit"
+        axis_label(Some("rotate(90")).contains("(T)"),
+        "tesla at the right"
     );
     assert!(labels.iter().any(|l| l.starts_with("IEC knee")));
     assert!(labels.iter().any(|l| l.starts_with("recommended max")));
