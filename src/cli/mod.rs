@@ -108,9 +108,11 @@ enum Command {
         after_help = "Example:\n  ironwind completions bash > ~/.local/share/bash-completion/completions/ironwind"
     )]
     Completions(completions::Args),
-    /// Print the manual page (roff)
-    #[command(after_help = "Example:\n  ironwind manpage > ~/.local/share/man/man1/ironwind.1")]
-    Manpage,
+    /// Print the manual pages (roff): the main one, one command's, or all into a folder
+    #[command(
+        after_help = "Examples:\n  ironwind manpage > ~/.local/share/man/man1/ironwind.1\n  ironwind manpage plan > ~/.local/share/man/man1/ironwind-plan.1\n  ironwind manpage --dir ~/.local/share/man/man1"
+    )]
+    Manpage(manpage::Args),
     /// After winding: what the meter's readings say (turns, wire, a shorted turn, a reversed half)
     #[command(
         after_help = "Example:\n  ironwind diagnose examples/garage_charger.toml examples/measured/garage_charger.toml\n  ironwind diagnose job.toml measured.toml --format json\n  ironwind diagnose job.toml measured.toml --record 3   # keep the readings with shelf core 3"
@@ -334,7 +336,7 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         Command::Probe(a) => probe::run(out, a, &ctx),
         Command::Shelf(a) => shelf::run(out, a, &ctx),
         Command::Completions(a) => completions::run(out, a, Cli::command()),
-        Command::Manpage => manpage::run(out, Cli::command()),
+        Command::Manpage(a) => manpage::run(out, a, Cli::command()),
         Command::Demo(a) => demo::run(out, a, &ctx),
         Command::Diagnose(a) => diagnose::run(out, a, &ctx),
         Command::Example(a) => example::run(out, a),
@@ -422,6 +424,12 @@ fn note(ctx: &Ctx, line: &str) {
     if !ctx.quiet {
         say(line);
     }
+}
+
+/// What a command whose only output is files did, on stderr (under `--quiet` too: it is the
+/// command's whole report).
+fn note_always(line: &str) {
+    say(line);
 }
 
 /// One line on stderr, ignoring a stderr that cannot be written.

@@ -254,3 +254,35 @@ fn new_asks_on_a_terminal() {
     assert!(text.contains("volts = 120"), "{text}");
     crate::common::run_in(&d, &["plan", "asked.toml"], &[]).ok();
 }
+
+#[test]
+fn every_manual_page_the_pages_name_exists() {
+    let d = crate::common::scratch("man");
+    let dir = d.join("man1");
+    run(&["manpage", "--dir", &dir.display().to_string()]).ok();
+    let mut named = Vec::new();
+    for e in std::fs::read_dir(&dir).expect("pages") {
+        let text = std::fs::read_to_string(e.expect("entry").path()).expect("page");
+        for part in text.split("(1)") {
+            let word = part
+                .rsplit(|c: char| c.is_whitespace())
+                .next()
+                .unwrap_or("")
+                .replace("\\-", "-");
+            if word.starts_with("ironwind") {
+                named.push(word);
+            }
+        }
+    }
+    assert!(named.iter().any(|n| n == "ironwind-plan"), "{named:?}");
+    assert!(named.iter().any(|n| n == "ironwind-shelf-add"), "{named:?}");
+    for n in named {
+        assert!(
+            dir.join(format!("{n}.1")).exists(),
+            "{n}(1) is named but not written"
+        );
+    }
+    let one = run(&["manpage", "shelf", "rank"]).ok().stdout;
+    assert!(one.contains(".TH ironwind-shelf-rank 1"), "{one}");
+    run(&["manpage", "nope"]).code(2).one_line_error();
+}

@@ -69,6 +69,8 @@ fn readme_commands_run() {
             .map(|a| match a.as_str() {
                 "card.html" | "window.svg" | "sweep.svg" | "capacity.svg" | "cores.csv"
                 | "job.toml" | "charger.toml" => d.join(&a).display().to_string(),
+                // A home folder: the scratch folder's own, never the person's.
+                _ if a.starts_with("~/") => d.join(&a[2..]).display().to_string(),
                 _ => a,
             })
             .collect();
