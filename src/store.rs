@@ -14,8 +14,11 @@ use std::path::{Path, PathBuf};
 /// Largest shelf file read, bytes.
 pub const MAX_SHELF_BYTES: u64 = 1 << 30;
 
-/// The shelf file: `--shelf`, else `IRONWIND_SHELF`, else `$XDG_DATA_HOME/ironwind/shelf.csv`, else
-/// `$HOME/.local/share/ironwind/shelf.csv` (the XDG base directory default).
+/// The shelf file: `--shelf`, else `IRONWIND_SHELF`, else `shelf.csv` in the platform's data
+/// folder as the `directories` crate finds it: `$XDG_DATA_HOME/ironwind` (or
+/// `~/.local/share/ironwind`) on Linux and the BSDs, `~/Library/Application Support/ironwind` on
+/// macOS, `%APPDATA%\ironwind\data` on Windows. Without `HOME` the home folder comes from the
+/// account database.
 pub fn locate(flag: Option<&Path>) -> Result<PathBuf> {
     if let Some(p) = flag {
         return Ok(p.to_path_buf());
@@ -23,18 +26,12 @@ pub fn locate(flag: Option<&Path>) -> Result<PathBuf> {
     if let Some(p) = std::env::var_os("IRONWIND_SHELF").filter(|v| !v.is_empty()) {
         return Ok(PathBuf::from(p));
     }
-    let base = std::env::var_os("XDG_DATA_HOME")
-        .filter(|v| !v.is_empty())
-        .map(PathBuf::from)
-        .or_else(|| {
-            std::env::var_os("HOME")
-                .filter(|v| !v.is_empty())
-                .map(|h| PathBuf::from(h).join(".local/share"))
-        })
-        .ok_or_else(|| {
-            Error::Failed("no shelf location: set IRONWIND_SHELF or pass --shelf FILE".into())
-        })?;
-    Ok(base.join("ironwind").join("shelf.csv"))
+    let dirs = directories::ProjectDirs::from("", "", "ironwind").ok_or_else(|| {
+        Error::Failed(
+            "no data folder found for the shelf: set IRONWIND_SHELF or pass --shelf FILE".into(),
+        )
+    })?;
+    Ok(dirs.data_dir().join("shelf.csv"))
 }
 
 /// Where a file really is: a symbolic link's target (so a write goes through the link, never

@@ -100,7 +100,7 @@ enum Command {
     Probe(probe::Args),
     /// The shelf of measured donor cores: add, list, show, edit, remove, export, import, rank
     #[command(
-        after_help = "Examples:\n  ironwind shelf add --label \"grey core\" --tongue 38 --stack 62 --window 19x57\n  ironwind shelf list --sort area-product\n  ironwind shelf rank examples/garage_charger.toml --top 5\n\nThe shelf is one CSV file: --shelf FILE, else $IRONWIND_SHELF, else $XDG_DATA_HOME/ironwind/shelf.csv."
+        after_help = "Examples:\n  ironwind shelf add --label \"grey core\" --tongue 38 --stack 62 --window 19x57\n  ironwind shelf list --sort area-product\n  ironwind shelf rank examples/garage_charger.toml --top 5\n\nThe shelf is one CSV file: --shelf FILE, else $IRONWIND_SHELF, else shelf.csv in the platform's data folder ($XDG_DATA_HOME/ironwind on Linux; ironwind shelf list says where)."
     )]
     Shelf(shelf::Args),
     /// Print a shell completion script (bash, zsh or fish)

@@ -13,7 +13,7 @@ use std::path::{Path, PathBuf};
 /// Arguments of `ironwind shelf`.
 #[derive(Debug, clap::Args)]
 pub(super) struct Args {
-    /// The shelf file (default: $IRONWIND_SHELF, else $XDG_DATA_HOME/ironwind/shelf.csv)
+    /// The shelf file (default: $IRONWIND_SHELF, else shelf.csv in the platform's data folder)
     #[arg(long, global = true)]
     shelf: Option<PathBuf>,
     #[command(subcommand)]

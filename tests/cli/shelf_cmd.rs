@@ -444,3 +444,32 @@ fn an_export_imports_back_whole() {
         "labels, notes and decimals come back as typed"
     );
 }
+
+#[test]
+fn the_shelf_has_a_home_without_home() {
+    // No HOME, no XDG_DATA_HOME, no IRONWIND_SHELF: the data folder still resolves (from the
+    // account database) and the command says where the shelf is.
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_ironwind"))
+        .args(["shelf", "list", "--format", "text"])
+        .env_remove("HOME")
+        .env_remove("XDG_DATA_HOME")
+        .env_remove("IRONWIND_SHELF")
+        .env("NO_COLOR", "1")
+        .output()
+        .expect("runs");
+    let all = format!(
+        "{}{}",
+        String::from_utf8_lossy(&out.stdout),
+        String::from_utf8_lossy(&out.stderr)
+    );
+    // An account with no home in the database is told how to name the shelf, without a panic.
+    if out.status.success() {
+        assert!(all.contains("shelf.csv"), "{all}");
+    } else {
+        assert_eq!(out.status.code(), Some(1), "{all}");
+        assert!(
+            all.starts_with("error: ") && all.contains("IRONWIND_SHELF"),
+            "{all}"
+        );
+    }
+}
