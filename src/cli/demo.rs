@@ -35,7 +35,7 @@ pub(super) fn run(out: &mut dyn Write, a: Args, ctx: &Ctx) -> Result<i32> {
     }
     let format = a.format.format();
     if format == Format::Text {
-        crate::render::plan::write_demo_intro(out).map_err(out_err)?;
+        crate::render::plan::write_demo_intro(out, &ctx.look).map_err(out_err)?;
     }
     crate::render::plan::write(out, &p, format, &ctx.look).map_err(out_err)?;
     Ok(0)

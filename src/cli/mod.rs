@@ -321,7 +321,8 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             ColorArg::Never => false,
             ColorArg::Auto => std::io::stdout().is_terminal() && !no_color_env,
         },
-        width: 80,
+        width: text_width().0,
+        fit_tables: text_width().1,
     };
     let ctx = Ctx {
         look,
@@ -341,6 +342,26 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         Command::Diagnose(a) => diagnose::run(out, a, &ctx),
         Command::Example(a) => example::run(out, a),
         Command::New(a) => new::run(out, a, &ctx),
+    }
+}
+
+/// Columns for text: the terminal's width on a terminal, else `COLUMNS` when set, else 80; never
+/// below 40 (a table cannot fit less) nor above 400. The flag says whether a width was found
+/// (tables are then narrowed to it too).
+fn text_width() -> (usize, bool) {
+    let from_terminal = std::io::stdout()
+        .is_terminal()
+        .then(terminal_size::terminal_size)
+        .flatten()
+        .map(|(w, _)| usize::from(w.0));
+    let from_env = || {
+        std::env::var("COLUMNS")
+            .ok()
+            .and_then(|v| v.trim().parse::<usize>().ok())
+    };
+    match from_terminal.or_else(from_env) {
+        Some(w) => (w.clamp(40, 400), true),
+        None => (80, false),
     }
 }
 

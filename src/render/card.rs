@@ -135,7 +135,7 @@ pub fn wrap_table(mut rows: Vec<Vec<String>>, look: &Look) -> String {
             *cell = wrap(cell, room, "", "").trim_end().to_string();
         }
     }
-    super::table(rows, 99, look.charset)
+    super::table(rows, 99, look)
 }
 
 /// Wraps `text` to `width` columns with `indent` on continuation lines.
@@ -467,22 +467,24 @@ fn verdict_line(p: &Plan) -> String {
     }
 }
 
-/// Two aligned rows, "layer" and "ends at turn", ten layers to a block.
-fn checkpoint_grid(w: &WindingPlan) -> String {
+/// Two aligned rows, "layer" and "ends at turn", as many layers to a block as the width holds
+/// (ten at most).
+fn checkpoint_grid(w: &WindingPlan, width: usize) -> String {
     let mut s = String::new();
     let cps = &w.coil.checkpoints;
-    for (b, chunk) in cps.chunks(10).enumerate() {
-        let cell = chunk
-            .iter()
-            .map(|t| t.to_string().len())
-            .max()
-            .unwrap_or(1)
-            .max(3)
-            + 2;
+    let cell = cps
+        .iter()
+        .map(|t| t.to_string().len())
+        .max()
+        .unwrap_or(1)
+        .max(3)
+        + 2;
+    let per = (width.saturating_sub(17) / cell).clamp(1, 10);
+    for (b, chunk) in cps.chunks(per).enumerate() {
         let mut l1 = String::from("    layer        ");
         let mut l2 = String::from("    ends at turn ");
         for (i, t) in chunk.iter().enumerate() {
-            l1 += &format!("{:>cell$}", b * 10 + i + 1);
+            l1 += &format!("{:>cell$}", b * per + i + 1);
             l2 += &format!("{:>cell$}", t);
         }
         s += l1.trim_end();
@@ -553,7 +555,7 @@ pub fn text_card(p: &Plan, o: &CardOptions) -> String {
     s += &text_cut_and_checks(p, o, &bold);
     s += &thin;
     s += "\n";
-    s += &bold(&verdict_line(p));
+    s += &bold(wrap(&verdict_line(p), width, "", "  ").trim_end());
     s += "\n";
     for w in &p.warnings {
         s += &wrap(&words::warning(w), width, "  ! ", "    ");
@@ -610,7 +612,7 @@ fn text_winding(
             "    ",
         );
     } else {
-        s += &checkpoint_grid(w);
+        s += &checkpoint_grid(w, width);
         if let Some(t) = tap_text(w) {
             s += &wrap(&format!("TAPS: {t}"), width, "    ", "      ");
         }

@@ -107,7 +107,7 @@ pub fn write(
                 ),
             ),
         ],
-        look.charset,
+        look,
     );
     writeln!(
         out,

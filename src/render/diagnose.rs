@@ -62,11 +62,17 @@ pub fn write(
         "{}\n",
         look.heading(&format!("ironwind diagnose: {}", d.job))
     );
-    s += &format!(
-        "readings at {} V on the primary, resistances at {} °C (corrected to 20 °C, IEC 60028)\n\n",
-        num(d.measured.applied_volts, 1),
-        num(d.measured.temperature_c, 0)
+    s += &super::card::wrap(
+        &format!(
+            "readings at {} V on the primary, resistances at {} °C (corrected to 20 °C, IEC 60028)",
+            num(d.measured.applied_volts, 1),
+            num(d.measured.temperature_c, 0)
+        ),
+        look.width,
+        "",
+        "  ",
     );
+    s += "\n";
     let mut rows = vec![vec![
         "#".to_string(),
         "finding".into(),
@@ -88,9 +94,15 @@ pub fn write(
     } else {
         s += &super::card::wrap_table(rows, look);
     }
-    s += &format!(
-        "\nvolts per turn these readings imply: {} V (keep it on the shelf with `--record ID`)\n",
-        num(d.volts_per_turn, 4)
+    s += "\n";
+    s += &super::card::wrap(
+        &format!(
+            "volts per turn these readings imply: {} V (keep it on the shelf with `--record ID`)",
+            num(d.volts_per_turn, 4)
+        ),
+        look.width,
+        "",
+        "  ",
     );
     out.write_all(look.finish(s).as_bytes())
 }

@@ -36,6 +36,7 @@ pub enum Format {
     Svg,
 }
 
+use std::borrow::Borrow;
 use tabled::builder::Builder;
 use tabled::settings::object::Columns;
 use tabled::settings::{Alignment, Style};
@@ -71,6 +72,9 @@ pub struct Look {
     pub color: bool,
     /// Columns the wrapped text (the card) keeps within.
     pub width: usize,
+    /// Tables narrowed to `width` too (on a terminal, or when `COLUMNS` is set); otherwise, in a
+    /// file or a pipe, tables keep their natural width so each row stays one line.
+    pub fit_tables: bool,
 }
 
 impl Default for Look {
@@ -80,6 +84,7 @@ impl Default for Look {
             units: Units::Metric,
             color: false,
             width: 80,
+            fit_tables: false,
         }
     }
 }
@@ -176,31 +181,77 @@ pub fn visible(s: &str) -> String {
 
 /// Builds a table from rows (the first is the header) with numbers right-aligned from `right_from`;
 /// the text ends with a newline.
-pub fn table(rows: Vec<Vec<String>>, right_from: usize, charset: Charset) -> String {
+pub fn table(rows: Vec<Vec<String>>, right_from: usize, look: impl Borrow<Look>) -> String {
+    let look = look.borrow();
+    // Too many columns for the width even with every cell wrapped at its words: one small
+    // table per row (heading: value), so no number is ever broken.
+    let cols = rows.first().map(Vec::len).unwrap_or(0);
+    let least: usize = (0..cols)
+        .map(|c| {
+            rows.iter()
+                .filter_map(|r| r.get(c))
+                .flat_map(|cell| cell.split_whitespace())
+                .map(|w| w.chars().count())
+                .max()
+                .unwrap_or(1)
+                + 3
+        })
+        .sum::<usize>()
+        + 1;
+    if look.fit_tables && cols > 2 && rows.len() > 1 && least > look.width {
+        let head = &rows[0];
+        let mut out = String::new();
+        for r in &rows[1..] {
+            let pairs_rows: Vec<(&str, String)> = head
+                .iter()
+                .map(String::as_str)
+                .zip(r.iter().cloned())
+                .collect();
+            out += &pairs(&pairs_rows, look);
+        }
+        return out;
+    }
     let mut b = Builder::default();
     for r in rows {
         b.push_record(r);
     }
     let mut t = b.build();
-    match charset {
+    match look.charset {
         Charset::Unicode => t.with(Style::rounded()),
         Charset::Ascii => t.with(Style::ascii()),
     };
     t.modify(Columns::new(right_from..), Alignment::right());
+    fit(&mut t, look);
     t.to_string() + "\n"
 }
 
+/// Narrows a table to the look's width: cells wrap at word boundaries (long words are broken),
+/// the widest columns giving up room first.
+fn fit(t: &mut tabled::Table, look: &Look) {
+    use tabled::settings::{peaker::PriorityMax, Width};
+    let width = look.width;
+    if look.fit_tables && t.total_width() > width {
+        t.with(
+            Width::wrap(width)
+                .keep_words(true)
+                .priority(PriorityMax::default()),
+        );
+    }
+}
+
 /// A two-column table of labels and values, without a header row; the text ends with a newline.
-pub fn pairs(rows: &[(&str, String)], charset: Charset) -> String {
+pub fn pairs(rows: &[(&str, String)], look: impl Borrow<Look>) -> String {
+    let look = look.borrow();
     let mut b = Builder::default();
     for (k, v) in rows {
         b.push_record([k.to_string(), v.clone()]);
     }
     let mut t = b.build();
-    match charset {
+    match look.charset {
         Charset::Unicode => t.with(Style::rounded().remove_horizontals()),
         Charset::Ascii => t.with(Style::ascii().remove_horizontals()),
     };
+    fit(&mut t, look);
     t.to_string() + "\n"
 }
 

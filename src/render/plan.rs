@@ -17,11 +17,14 @@ pub fn write(out: &mut dyn Write, plan: &Plan, format: Format, look: &Look) -> s
 }
 
 /// The line the demo prints before its plan.
-pub fn write_demo_intro(out: &mut dyn Write) -> std::io::Result<()> {
-    writeln!(
-        out,
-        "The bundled example (examples/garage_charger.toml), planned end to end.\n"
-    )
+pub fn write_demo_intro(out: &mut dyn Write, look: &Look) -> std::io::Result<()> {
+    let text = super::card::wrap(
+        "The bundled example (examples/garage_charger.toml), planned end to end.",
+        look.width,
+        "",
+        "",
+    );
+    writeln!(out, "{text}")
 }
 
 /// The plan as one string.
@@ -38,7 +41,6 @@ pub fn plan_text(plan: &Plan, look: Look) -> String {
 
 /// The core: measurements, areas, path, mass.
 fn core_section(plan: &Plan, look: Look) -> String {
-    let cs = look.charset;
     let lk = &look;
     let mut s = String::new();
     let g = &plan.geometry;
@@ -107,14 +109,13 @@ fn core_section(plan: &Plan, look: Look) -> String {
                 ),
             ),
         ],
-        cs,
+        look,
     );
     s
 }
 
 /// The drive and what the probe told the plan.
 fn drive_section(plan: &Plan, look: Look) -> String {
-    let cs = look.charset;
     let mut s = String::new();
     let d = &plan.drive;
     let wf = match d.waveform {
@@ -154,12 +155,12 @@ fn drive_section(plan: &Plan, look: Look) -> String {
         drive.push(("flux vs donor", format!("× {}", num(r, 3))));
     }
     s += "\nDrive\n";
-    s += &pairs(&drive, cs);
+    s += &pairs(&drive, look);
     if let Some(n) = &d.kept_output_note {
-        s += &format!("{}\n", words::kept_output_note(n));
+        s += &super::card::wrap(&words::kept_output_note(n), look.width, "", "  ");
     }
     if let Some(k) = &d.kept_limit {
-        s += &format!("{}\n", words::kept_limit(k));
+        s += &super::card::wrap(&words::kept_limit(k), look.width, "", "  ");
     }
     if let Some(p) = &plan.probe {
         let mut rows = Vec::new();
@@ -186,7 +187,7 @@ fn drive_section(plan: &Plan, look: Look) -> String {
         }
         if !rows.is_empty() {
             s += "\nProbe\n";
-            s += &pairs(&rows, cs);
+            s += &pairs(&rows, look);
         }
     }
     s
@@ -194,7 +195,6 @@ fn drive_section(plan: &Plan, look: Look) -> String {
 
 /// The windings table, innermost first.
 fn windings_section(plan: &Plan, look: Look) -> String {
-    let cs = look.charset;
     let lk = &look;
     let mut s = String::new();
     s += "\nWindings (innermost first)\n";
@@ -240,13 +240,13 @@ fn windings_section(plan: &Plan, look: Look) -> String {
             lk.mm_bare(w.coil.build_mm, 2),
         ]);
     }
-    s += &table(rows, 2, cs);
+    s += &table(rows, 2, look);
     if plan.core.shape.name() == "ui" {
         s += "(U-I core: each winding is split over the two legs; turns per layer, layers and build are per half-coil.)\n";
     }
     for w in &plan.windings {
         for note in words::built_notes(plan, w) {
-            s += &format!("{note}\n");
+            s += &super::card::wrap(&note, look.width, "", "  ");
         }
     }
     s
@@ -254,7 +254,6 @@ fn windings_section(plan: &Plan, look: Look) -> String {
 
 /// Mean turn, length, resistance, loss and volts of each winding; taps.
 fn electrical_section(plan: &Plan, look: Look) -> String {
-    let cs = look.charset;
     let lk = &look;
     let mut s = String::new();
     s += "\nElectrical\n";
@@ -290,7 +289,7 @@ fn electrical_section(plan: &Plan, look: Look) -> String {
                 .unwrap_or_else(|| "-".into()),
         ]);
     }
-    s += &table(rows, 1, cs);
+    s += &table(rows, 1, look);
     for w in plan.windings.iter().filter(|w| !w.taps.is_empty()) {
         let list: Vec<String> = w
             .taps
@@ -328,7 +327,6 @@ fn efficiency_text(plan: &Plan) -> String {
 
 /// Window fill, build, losses and heating.
 fn window_section(plan: &Plan, look: Look) -> String {
-    let cs = look.charset;
     let lk = &look;
     let mut s = String::new();
     s += "\nWindow, losses and heating\n";
@@ -385,26 +383,25 @@ fn window_section(plan: &Plan, look: Look) -> String {
                 ),
             ),
         ],
-        cs,
+        look,
     );
     for w in plan
         .windings
         .iter()
         .filter(|w| w.adiabatic_rise_c.is_some())
     {
-        s += &format!("{}\n", words::adiabatic_note(w));
+        s += &super::card::wrap(&words::adiabatic_note(w), look.width, "", "  ");
     }
     s
 }
 
 /// Warnings, the verdict table and the cautions, shared by the plan and the demo.
 pub fn warnings_and_verdict(plan: &Plan, look: Look) -> String {
-    let cs = look.charset;
     let mut s = String::new();
     if !plan.warnings.is_empty() {
         s += "\nWarnings\n";
         for w in &plan.warnings {
-            s += &format!("  ! {}\n", words::warning(w));
+            s += &super::card::wrap(&words::warning(w), look.width, "  ! ", "    ");
         }
     } else {
         s += "\n";
@@ -423,10 +420,10 @@ pub fn warnings_and_verdict(plan: &Plan, look: Look) -> String {
             words::check_detail(c),
         ]);
     }
-    s += &table(rows, 99, cs);
+    s += &table(rows, 99, look);
     s += "\nCautions\n";
     for c in plan.cautions {
-        s += &format!("  * {c}\n");
+        s += &super::card::wrap(c, look.width, "  * ", "    ");
     }
     s
 }

@@ -56,7 +56,7 @@ fn test_section(r: &ProbeReport, look: &Look) -> String {
                 ),
             ),
         ],
-        look.charset,
+        look,
     );
     s
 }
@@ -90,7 +90,7 @@ fn sweep_section(r: &ProbeReport, look: &Look) -> String {
         }
         rows.push(row);
     }
-    s += &table(rows, 0, look.charset);
+    s += &table(rows, 0, look);
     let opt = |v: Option<f64>, d: usize, unit: &str| {
         v.map(|x| format!("{} {unit}", num(x, d)))
             .unwrap_or_else(|| "not reached".to_string())
@@ -121,7 +121,7 @@ fn sweep_section(r: &ProbeReport, look: &Look) -> String {
                 ),
             ),
         ],
-        look.charset,
+        look,
     );
     if imperial {
         s += &format!(
@@ -144,10 +144,12 @@ pub fn probe_text(r: &ProbeReport, look: &Look) -> String {
     if !r.warnings.is_empty() {
         s += &format!("\n{}\n", look.heading("Warnings"));
         for w in &r.warnings {
-            s += &format!("  {} {}\n", look.mark("!", false), words::warning(w));
+            let mark = format!("  {} ", look.mark("!", false));
+            s += &super::card::wrap(&words::warning(w), look.width, &mark, "    ");
         }
     }
-    s += "\nCaution: power probe tests only through a fuse and a current limit (series lamp or isolating variable\ntransformer); remove a microwave-oven donor's high-voltage winding first; keep one hand away.\n";
+    s += "\n";
+    s += &super::card::wrap("Caution: power probe tests only through a fuse and a current limit (series lamp or isolating variable transformer); remove a microwave-oven donor's high-voltage winding first; keep one hand away.", look.width, "", "  ");
     s
 }
 

@@ -104,14 +104,13 @@ fn capacity_pairs(c: &Capacity, look: &Look) -> String {
             ),
             ("plans evaluated", c.plans_evaluated.to_string()),
         ],
-        look.charset,
+        look,
     )
 }
 
 /// The rating as text.
 pub fn rate_text(r: &Rating, look: &Look) -> String {
     let c = &r.capacity;
-    let cs = look.charset;
     let mut s = format!(
         "{}\n\n",
         look.heading(&format!("ironwind rate: {}", r.name))
@@ -138,7 +137,7 @@ pub fn rate_text(r: &Rating, look: &Look) -> String {
                 w.strands.to_string(),
             ]);
         }
-        s += &table(rows, 1, cs);
+        s += &table(rows, 1, look);
     }
     if let Some(v) = &r.verdict {
         s += &format!(
@@ -154,15 +153,15 @@ pub fn rate_text(r: &Rating, look: &Look) -> String {
         for o in &r.options {
             rows.push(vec![words::change(&o.change), num(o.max_va, 0)]);
         }
-        s += &table(rows, 1, cs);
+        s += &table(rows, 1, look);
     }
     s += "\n";
     for n in &r.notes {
-        s += &format!("note: {}\n", words::rate_note(n));
+        s += &super::card::wrap(&words::rate_note(n), look.width, "note: ", "      ");
     }
     s += "\nCautions\n";
     for c in r.cautions {
-        s += &format!("  * {c}\n");
+        s += &super::card::wrap(c, look.width, "  * ", "    ");
     }
     s
 }

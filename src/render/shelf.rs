@@ -102,7 +102,7 @@ fn list_text(l: &Listing, look: &Look) -> String {
     for c in &l.cores {
         t.push(list_cells(c, look));
     }
-    table(t, 5, look.charset)
+    table(t, 5, look)
 }
 
 /// One core's cells in the text listing.
@@ -343,7 +343,7 @@ pub fn write_show(
             ("notes", visible(&e.notes)),
             ("added", visible(&e.added)),
         ],
-        look.charset,
+        look,
     );
     out.write_all(look.finish(s).as_bytes())
 }
@@ -395,15 +395,20 @@ pub fn write_rank(
             num(c.copper_fill, 2),
         ]);
     }
-    let s = look.finish(table(t, 99, look.charset));
+    let s = look.finish(table(t, 99, look));
     let carrying = r.ranked.iter().filter(|c| c.carries).count();
-    write!(
-        out,
-        "\"{}\" ({} VA) on {} cores: {carrying} shown carry it\n{s}",
-        visible(&r.job),
-        num(r.job_va, 0),
-        r.total
-    )
+    let head = super::card::wrap(
+        &format!(
+            "\"{}\" ({} VA) on {} cores: {carrying} shown carry it",
+            visible(&r.job),
+            num(r.job_va, 0),
+            r.total
+        ),
+        look.width,
+        "",
+        "  ",
+    );
+    write!(out, "{head}{s}")
 }
 
 /// `shelf add`: the new id, text or JSON.

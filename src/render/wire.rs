@@ -81,7 +81,7 @@ fn table_text(r: &WireReport, look: &Look) -> String {
         }
         t.push(row);
     }
-    table(t, 1, look.charset)
+    table(t, 1, look)
 }
 
 fn choice_json(c: &ChoiceReport) -> ChoiceJson {
@@ -133,6 +133,6 @@ fn choice_text(c: &ChoiceReport, look: &Look) -> String {
                 ),
             ),
         ],
-        look.charset,
+        look,
     )
 }

@@ -97,6 +97,7 @@ fn run_full(dir: Option<&Path>, args: &[&str], stdin: Option<&[u8]>, env: &[(&st
         .stdout(Stdio::piped())
         .stderr(Stdio::piped())
         .env_remove("IRONWIND_SHELF")
+        .env_remove("COLUMNS")
         .env("NO_COLOR", "1");
     for (k, v) in env {
         cmd.env(k, v);

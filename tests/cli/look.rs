@@ -102,3 +102,29 @@ fn help_follows_the_colour_flag() {
     let env = run_with(&["core", "--help"], None, &[("NO_COLOR", "1")]).ok();
     assert!(!env.stdout.contains('\x1b'));
 }
+
+#[test]
+fn text_fits_the_width_it_is_given() {
+    // COLUMNS stands in for a terminal's width (POSIX.1-2017, 8.3 "Other Environment Variables").
+    let mut cmds = commands();
+    cmds.push(vec!["plan", "examples/dual_primary_bench_supply.toml"]);
+    cmds.push(vec![
+        "diagnose",
+        JOB,
+        "examples/measured/garage_charger.toml",
+    ]);
+    for width in ["60", "100"] {
+        let w: usize = width.parse().expect("width");
+        for cmd in &cmds {
+            let r = run_with(cmd, None, &[("COLUMNS", width)]);
+            assert_eq!(r.code, 0, "{cmd:?}: {}", r.stderr);
+            for line in r.stdout.lines() {
+                assert!(
+                    line.chars().count() <= w,
+                    "{cmd:?} at {w} columns: {} > {w}: {line}",
+                    line.chars().count()
+                );
+            }
+        }
+    }
+}
