@@ -51,7 +51,7 @@ pub(super) struct Args {
     name: Option<String>,
 }
 
-pub(super) fn run(out: &mut dyn Write, a: Args) -> Result<i32> {
+pub(super) fn run(out: &mut dyn Write, a: Args, quiet: bool) -> Result<i32> {
     match a.name {
         None => {
             for (name, text) in EXAMPLES {
@@ -61,6 +61,9 @@ pub(super) fn run(out: &mut dyn Write, a: Args) -> Result<i32> {
                     .map(|n| n.trim_matches('"'))
                     .unwrap_or("measurements for diagnose");
                 writeln!(out, "{name:<28} {title}").map_err(out_err)?;
+            }
+            if quiet {
+                return Ok(0);
             }
             writeln!(
                 out,

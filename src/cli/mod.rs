@@ -323,6 +323,7 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         },
         width: text_width().0,
         fit_tables: text_width().1,
+        quiet: cli.quiet,
     };
     let ctx = Ctx {
         look,
@@ -340,7 +341,7 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
         Command::Manpage(a) => manpage::run(out, a, Cli::command()),
         Command::Demo(a) => demo::run(out, a, &ctx),
         Command::Diagnose(a) => diagnose::run(out, a, &ctx),
-        Command::Example(a) => example::run(out, a),
+        Command::Example(a) => example::run(out, a, ctx.quiet),
         Command::New(a) => new::run(out, a, &ctx),
     }
 }

@@ -109,6 +109,9 @@ pub fn write(
         ],
         look,
     );
+    if look.quiet {
+        return writeln!(out, "{}", look.finish(t));
+    }
     writeln!(
         out,
         "{}\n{}",

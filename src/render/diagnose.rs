@@ -97,8 +97,13 @@ pub fn write(
     s += "\n";
     s += &super::card::wrap(
         &format!(
-            "volts per turn these readings imply: {} V (keep it on the shelf with `--record ID`)",
-            num(d.volts_per_turn, 4)
+            "volts per turn these readings imply: {} V{}",
+            num(d.volts_per_turn, 4),
+            if look.quiet {
+                ""
+            } else {
+                " (keep it on the shelf with `--record ID`)"
+            }
         ),
         look.width,
         "",

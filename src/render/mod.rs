@@ -75,6 +75,8 @@ pub struct Look {
     /// Tables narrowed to `width` too (on a terminal, or when `COLUMNS` is set); otherwise, in a
     /// file or a pipe, tables keep their natural width so each row stays one line.
     pub fit_tables: bool,
+    /// `--quiet`: data only — no hints, notes or introductions (cautions and warnings stay).
+    pub quiet: bool,
 }
 
 impl Default for Look {
@@ -85,6 +87,7 @@ impl Default for Look {
             color: false,
             width: 80,
             fit_tables: false,
+            quiet: false,
         }
     }
 }

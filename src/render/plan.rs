@@ -18,6 +18,9 @@ pub fn write(out: &mut dyn Write, plan: &Plan, format: Format, look: &Look) -> s
 
 /// The line the demo prints before its plan.
 pub fn write_demo_intro(out: &mut dyn Write, look: &Look) -> std::io::Result<()> {
+    if look.quiet {
+        return Ok(());
+    }
     let text = super::card::wrap(
         "The bundled example (examples/garage_charger.toml), planned end to end.",
         look.width,

@@ -156,7 +156,7 @@ pub fn rate_text(r: &Rating, look: &Look) -> String {
         s += &table(rows, 1, look);
     }
     s += "\n";
-    for n in &r.notes {
+    for n in r.notes.iter().filter(|_| !look.quiet) {
         s += &super::card::wrap(&words::rate_note(n), look.width, "note: ", "      ");
     }
     s += "\nCautions\n";

@@ -128,3 +128,43 @@ fn text_fits_the_width_it_is_given() {
         }
     }
 }
+
+#[test]
+fn quiet_keeps_data_and_cautions_and_drops_the_rest() {
+    for cmd in commands() {
+        let loud = run_with(&cmd, None, &[]);
+        let quiet = run_with(&with(&["-q"], &cmd), None, &[]);
+        assert_eq!(quiet.code, loud.code, "{cmd:?}");
+        assert!(quiet.stderr.is_empty(), "{cmd:?}: {}", quiet.stderr);
+        for hint in [
+            "note:",
+            "use `ironwind",
+            "keep it on the shelf",
+            "Print one",
+            "planned end to end",
+        ] {
+            assert!(!quiet.stdout.contains(hint), "{cmd:?} -q still says {hint}");
+        }
+        // The cautions stay with every plan and card.
+        if loud.stdout.contains("does not certify a design as safe") {
+            assert!(
+                quiet.stdout.contains("does not certify a design as safe"),
+                "{cmd:?}"
+            );
+        }
+    }
+    // Where there was something to drop, it is gone.
+    for cmd in [
+        vec!["rate", JOB],
+        vec![
+            "core", "--tongue", "32", "--stack", "40", "--window", "16x48",
+        ],
+        vec!["demo"],
+        vec!["example"],
+        vec!["diagnose", JOB, "examples/measured/garage_charger.toml"],
+    ] {
+        let loud = run_with(&cmd, None, &[]).stdout;
+        let quiet = run_with(&with(&["-q"], &cmd), None, &[]).stdout;
+        assert!(quiet.len() < loud.len(), "{cmd:?}: -q changed nothing");
+    }
+}
