@@ -270,15 +270,15 @@ fn half_coil_note(p: &Plan, w: &WindingPlan) -> Option<String> {
     })
 }
 
-fn insulation_note(p: &Plan, last: bool) -> String {
+fn insulation_note(p: &Plan, last: bool, look: &Look) -> String {
     let s = &p.settings;
     format!(
-        "Insulation: {} mm between layers, {} after.",
-        num(s.interlayer_mm, 2),
+        "Insulation: {} between layers, {} after.",
+        look.mm(s.interlayer_mm, 2),
         if last {
-            format!("{} mm outer wrap", num(s.outer_mm, 2))
+            format!("{} outer wrap", look.mm(s.outer_mm, 2))
         } else {
-            format!("{} mm", num(s.between_windings_mm, 2))
+            look.mm(s.between_windings_mm, 2)
         }
     )
 }
@@ -548,7 +548,7 @@ pub fn text_card(p: &Plan, o: &CardOptions) -> String {
     for (k, w) in p.windings.iter().enumerate() {
         s += &thin;
         s += "\n";
-        s += &text_winding(p, w, k, k + 1 == n, width, &bold);
+        s += &text_winding(p, w, k, k + 1 == n, &o.look, &bold);
     }
     s += &thin;
     s += "\n";
@@ -580,9 +580,10 @@ fn text_winding(
     w: &WindingPlan,
     k: usize,
     last: bool,
-    width: usize,
+    look: &Look,
     bold: &dyn Fn(&str) -> String,
 ) -> String {
+    let width = look.width;
     let mut s = bold(&format!(
         "[{}] {} \"{}\"  {}",
         k + 1,
@@ -618,7 +619,7 @@ fn text_winding(
         }
         s += &wrap(&lead_note(w, k), width, "    ", "    ");
     }
-    s += &wrap(&insulation_note(p, last), width, "    ", "    ");
+    s += &wrap(&insulation_note(p, last, look), width, "    ", "    ");
     s
 }
 
@@ -633,9 +634,9 @@ fn text_cut_and_checks(p: &Plan, o: &CardOptions, bold: &dyn Fn(&str) -> String)
     for w in p.windings.iter().filter(|w| !w.kept) {
         s += &wrap(
             &format!(
-                "\"{}\": cut {} m per strand x {}{} ({} turns x {} mm mean turn + leads), {} g copper",
+                "\"{}\": cut {} per strand x {}{} ({} turns x {} mean turn + leads), {} copper",
                 w.name,
-                num(w.cut_length_m, 2),
+                o.look.m(w.cut_length_m, 2),
                 w.wire.strands,
                 if w.sections > 1 {
                     format!(" x {} (one per half or section)", w.sections)
@@ -643,8 +644,8 @@ fn text_cut_and_checks(p: &Plan, o: &CardOptions, bold: &dyn Fn(&str) -> String)
                     String::new()
                 },
                 w.turns,
-                num(w.coil.mean_turn_mm, 0),
-                num(w.copper_mass_g, 0)
+                o.look.mm(w.coil.mean_turn_mm, 0),
+                o.look.g(w.copper_mass_g, 0)
             ),
             width,
             "  ",
@@ -652,7 +653,7 @@ fn text_cut_and_checks(p: &Plan, o: &CardOptions, bold: &dyn Fn(&str) -> String)
         );
     }
     for b in buy_list(p, o.spare) {
-        s += &wrap(&buy_text(&b), width, "  buy: ", "    ");
+        s += &wrap(&buy_text(&b, &o.look), width, "  buy: ", "    ");
     }
     s += &bold("BENCH CHECKS");
     s += "\n";
@@ -665,13 +666,13 @@ fn text_cut_and_checks(p: &Plan, o: &CardOptions, bold: &dyn Fn(&str) -> String)
     s
 }
 
-fn buy_text(b: &BuyRow) -> String {
+fn buy_text(b: &BuyRow, look: &Look) -> String {
     let what = match b.system {
         "awg" => format!("AWG {}", b.size),
         "strip" => format!("strip {} mm", b.size),
         _ => format!("{} mm", b.size),
     };
-    format!("{what}: {} m, {} g", num(b.length_m, 1), num(b.mass_g, 0))
+    format!("{what}: {}, {}", look.m(b.length_m, 1), look.g(b.mass_g, 0))
 }
 
 /// Text for Markdown: HTML's specials escaped, so a name cannot carry markup into a page.
@@ -739,7 +740,7 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
             }
             let _ = writeln!(s, "- {}", lead_note(w, k));
         }
-        let _ = writeln!(s, "- {}\n", insulation_note(p, k + 1 == n));
+        let _ = writeln!(s, "- {}\n", insulation_note(p, k + 1 == n, &o.look));
     }
     let _ = writeln!(s, "## Cut and buy (spare {} %)\n", num(o.spare * 100.0, 0));
     let _ = writeln!(
@@ -758,7 +759,7 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     }
     let _ = writeln!(s);
     for b in buy_list(p, o.spare) {
-        let _ = writeln!(s, "- Buy {}", buy_text(&b));
+        let _ = writeln!(s, "- Buy {}", buy_text(&b, &o.look));
     }
     let _ = writeln!(s, "\n## Bench checks\n");
     for l in bench_lines(p) {
@@ -1172,7 +1173,7 @@ ul { margin: 0; padding-left: 3.5mm; }
 "#;
 
 /// One winding's box on the HTML card.
-fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool) -> String {
+fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool, look: &Look) -> String {
     let mut s = String::new();
     s += "<div class=\"w\">";
     let _ = write!(
@@ -1198,7 +1199,7 @@ fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool) -> String {
             s,
             "<div class=\"small\">{} {}</div>",
             esc(&wire_text(w)),
-            esc(&insulation_note(p, last))
+            esc(&insulation_note(p, last, look))
         );
     } else {
         let _ = write!(
@@ -1230,7 +1231,7 @@ fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool) -> String {
             s,
             "<div class=\"small\">{} {}</div>",
             esc(&lead_note(w, k)),
-            esc(&insulation_note(p, last))
+            esc(&insulation_note(p, last, look))
         );
     }
     s += "</div>";
@@ -1254,7 +1255,7 @@ fn html_cut_and_checks(p: &Plan, o: &CardOptions) -> String {
     }
     s += "</table><ul class=\"small\">";
     for b in buy_list(p, o.spare) {
-        let _ = write!(s, "<li>Buy {}</li>", esc(&buy_text(&b)));
+        let _ = write!(s, "<li>Buy {}</li>", esc(&buy_text(&b, &o.look)));
     }
     s += "</ul></div><div><h3>Bench checks</h3><table><tr><th>winding</th><th>&#937; at 20 &#176;C</th><th>no-load V</th></tr>";
     for w in &p.windings {
@@ -1339,7 +1340,7 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
     s += "<div class=\"top\"><div class=\"windings\">";
     let n = p.windings.len();
     for (k, w) in p.windings.iter().enumerate() {
-        s += &html_winding(p, w, k, k + 1 == n);
+        s += &html_winding(p, w, k, k + 1 == n, &o.look);
     }
     s += "</div><div class=\"xsec-box\">";
     s += &cross_section_svg(p, 160.0);

@@ -143,6 +143,45 @@ impl Look {
             Units::Imperial => format!("{} in² ({} mm²)", num(v / 645.16, 3), num(v, d)),
         }
     }
+    /// An area product in cm⁴ (imperial: in⁴ first; 1 in⁴ = 41.623 cm⁴ from 2.54⁴).
+    pub fn cm4(&self, v: f64, d: usize) -> String {
+        match self.units {
+            Units::Metric => format!("{} cm⁴", num(v, d)),
+            Units::Imperial => format!("{} in⁴ ({} cm⁴)", num(v / 2.54f64.powi(4), 3), num(v, d)),
+        }
+    }
+    /// A mass in grams (imperial: ounces first, 1 oz = 28.349 523 125 g).
+    pub fn g(&self, v: f64, d: usize) -> String {
+        match self.units {
+            Units::Metric => format!("{} g", num(v, d)),
+            Units::Imperial => format!("{} oz ({} g)", num(v / 28.349_523_125, 1), num(v, d)),
+        }
+    }
+    /// A current density in A/mm² (imperial: circular mils per ampere, the trade's figure).
+    pub fn density(&self, a_mm2: f64) -> String {
+        match self.units {
+            Units::Metric => format!("{} A/mm²", num(a_mm2, 2)),
+            Units::Imperial => format!(
+                "{} cmil/A ({} A/mm²)",
+                num(crate::wire::CMIL_PER_A_AT_1_A_MM2 / a_mm2.max(1e-9), 0),
+                num(a_mm2, 2)
+            ),
+        }
+    }
+    /// A current density's bare figure for a table column and its heading.
+    pub fn density_bare(&self, a_mm2: f64) -> String {
+        match self.units {
+            Units::Metric => num(a_mm2, 2),
+            Units::Imperial => num(crate::wire::CMIL_PER_A_AT_1_A_MM2 / a_mm2.max(1e-9), 0),
+        }
+    }
+    /// The heading of a current-density column.
+    pub fn density_unit(&self) -> &'static str {
+        match self.units {
+            Units::Metric => "A/mm²",
+            Units::Imperial => "cmil/A",
+        }
+    }
     /// Wraps text in bold when colour is on.
     pub fn bold(&self, s: &str) -> String {
         if self.color {

@@ -94,16 +94,13 @@ fn core_section(plan: &Plan, look: Look) -> String {
                 ),
             ),
             ("Aw (one window)", lk.mm2(g.window_area_mm2, 1)),
-            (
-                "area product Ap",
-                format!("{} cm⁴", num(g.area_product_cm4, 2)),
-            ),
+            ("area product Ap", lk.cm4(g.area_product_cm4, 2)),
             ("path length le", lk.mm(g.path_length_mm, 1)),
             (
                 "core mass",
                 format!(
-                    "{} kg{}",
-                    num(g.mass_kg, 3),
+                    "{}{}",
+                    lk.kg(g.mass_kg, 3),
                     if g.mass_measured {
                         " (weighed)"
                     } else {
@@ -210,7 +207,7 @@ fn windings_section(plan: &Plan, look: Look) -> String {
         "wire".into(),
         "strands".into(),
         format!("OD {}", lk.mm_unit()),
-        "A/mm²".into(),
+        lk.density_unit().into(),
         "turns/layer".into(),
         "layers".into(),
         format!("build {}", lk.mm_unit()),
@@ -237,7 +234,7 @@ fn windings_section(plan: &Plan, look: Look) -> String {
             wire_label(&w.wire.conductor, lk),
             w.wire.strands.to_string(),
             lk.mm_bare(w.wire.conductor.build_mm(), 3),
-            num(w.current_density_a_mm2, 2),
+            lk.density_bare(w.current_density_a_mm2),
             w.coil.turns_per_layer.to_string(),
             w.coil.layers.to_string(),
             lk.mm_bare(w.coil.build_mm, 2),
@@ -359,7 +356,17 @@ fn window_section(plan: &Plan, look: Look) -> String {
                     num(l.regulation_pct, 1)
                 ),
             ),
-            ("surface", format!("{} cm²", num(t.surface_cm2, 0))),
+            (
+                "surface",
+                match lk.units {
+                    Units::Metric => format!("{} cm²", num(t.surface_cm2, 0)),
+                    Units::Imperial => format!(
+                        "{} in² ({} cm²)",
+                        num(t.surface_cm2 / 6.4516, 0),
+                        num(t.surface_cm2, 0)
+                    ),
+                },
+            ),
             (
                 "temperature rise",
                 format!(
@@ -420,7 +427,7 @@ pub fn warnings_and_verdict(plan: &Plan, look: Look) -> String {
         rows.push(vec![
             c.name(),
             if c.ok { "ok".into() } else { "FAIL".into() },
-            words::check_detail(c),
+            words::check_detail_in(c, look.units),
         ]);
     }
     s += &table(rows, 99, look);

@@ -80,10 +80,10 @@ fn capacity_pairs(c: &Capacity, look: &Look) -> String {
             (
                 "at capacity",
                 format!(
-                    "rise {} °C, copper fill {}, {} A/mm², efficiency {} %",
+                    "rise {} °C, copper fill {}, {}, efficiency {} %",
                     num(c.rise_c, 1),
                     num(c.copper_fill, 2),
-                    num(c.current_density_a_mm2, 2),
+                    look.density(c.current_density_a_mm2),
                     num(c.efficiency * 100.0, 1)
                 ),
             ),

@@ -20,6 +20,16 @@ pub fn flux_source(s: &FluxSource) -> String {
 
 /// One line of detail for a check.
 pub fn check_detail(c: &Check) -> String {
+    check_detail_in(c, super::Units::Metric)
+}
+
+/// A check's figures in words, in the display units (imperial: inches and circular mils per
+/// ampere first, SI beside).
+pub fn check_detail_in(c: &Check, units: super::Units) -> String {
+    let look = super::Look {
+        units,
+        ..super::Look::default()
+    };
     match &c.figures {
         CheckFigures::Flux {
             flux_t,
@@ -38,7 +48,9 @@ pub fn check_detail(c: &Check) -> String {
             copper_fill,
             ..
         } => format!(
-            "build {build_mm:.2} mm of {available_mm:.2} mm available; copper fill {copper_fill:.2}"
+            "build {} of {} available; copper fill {copper_fill:.2}",
+            look.mm(*build_mm, 2),
+            look.mm(*available_mm, 2)
         ),
         CheckFigures::Heating { rise_c, limit_c } => {
             format!("rise {rise_c:.1} °C, limit {limit_c:.0} °C")
@@ -51,7 +63,9 @@ pub fn check_detail(c: &Check) -> String {
             winding,
             limit_a_mm2,
         } => format!(
-            "highest {highest_a_mm2:.2} A/mm² (\"{winding}\"), limit {limit_a_mm2:.2} A/mm²"
+            "highest {} (\"{winding}\"), limit {}",
+            look.density(*highest_a_mm2),
+            look.density(*limit_a_mm2)
         ),
         CheckFigures::PrimaryCurrent { amps } if c.ok => format!("{amps:.2} A at full load"),
         CheckFigures::PrimaryCurrent { .. } => {

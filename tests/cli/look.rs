@@ -168,3 +168,40 @@ fn quiet_keeps_data_and_cautions_and_drops_the_rest() {
         assert!(quiet.len() < loud.len(), "{cmd:?}: -q changed nothing");
     }
 }
+
+#[test]
+fn imperial_shows_an_imperial_figure_beside_every_metric_one() {
+    // (metric unit, the imperial unit that must stand beside it on the same line)
+    let pairs = [
+        ("cm⁴", "in⁴"),
+        (" kg", " lb"),
+        ("A/mm²", "cmil/A"),
+        (" m)", " ft ("),
+        (" g)", " oz ("),
+    ];
+    for cmd in [
+        vec!["plan", JOB],
+        vec!["card", JOB],
+        vec!["rate", JOB],
+        vec![
+            "core", "--tongue", "32", "--stack", "40", "--window", "16x48",
+        ],
+    ] {
+        let out = run_with(
+            &with(&["--units", "imperial"], &cmd),
+            None,
+            &[("COLUMNS", "300")],
+        )
+        .stdout;
+        for line in out.lines() {
+            for (metric, imperial) in pairs {
+                if line.contains(metric) {
+                    assert!(
+                        line.contains(imperial),
+                        "{cmd:?}: {metric} without {imperial}: {line}"
+                    );
+                }
+            }
+        }
+    }
+}
