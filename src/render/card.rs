@@ -592,6 +592,9 @@ fn text_winding(
         volts_amps(p, w)
     ));
     s += "\n";
+    if !p.verdict.ok {
+        s += "    NOT TO BE WOUND: the design does not pass\n";
+    }
     s += &bold(&format!("    TURNS {}", turns_text(w)));
     if w.kept {
         s += "   (counted by the test winding)\n";
@@ -695,11 +698,16 @@ pub fn markdown_card(p: &Plan, o: &CardOptions) -> String {
     for (k, w) in p.windings.iter().enumerate() {
         let _ = writeln!(
             s,
-            "## {}. {} \"{}\": {}\n",
+            "## {}. {} \"{}\": {}{}\n",
             k + 1,
             role_word(w),
             md(&w.name),
-            volts_amps(p, w)
+            volts_amps(p, w),
+            if p.verdict.ok {
+                ""
+            } else {
+                " — *not to be wound: the design does not pass*"
+            }
         );
         let _ = writeln!(
             s,
@@ -1155,6 +1163,8 @@ h3 { font-size: 8pt; margin: 0.8mm 0 0.5mm 0; }
 .banner { font-weight: bold; font-size: 10pt; border: 0.8mm solid #000; background: #eee; padding: 1mm 2mm; margin: 0 0 1.5mm 0; }
 .verdict { font-weight: bold; font-size: 8.6pt; border: 0.5mm solid #000; padding: 0.8mm 1.5mm; margin: 1mm 0; }
 .verdict.fail { border-style: dashed; }
+.w.void { border-style: dashed; background: repeating-linear-gradient(135deg, #fff 0 3mm, #f1f1f1 3mm 6mm); }
+.stamp { font-weight: bold; font-size: 7pt; letter-spacing: 0.2pt; }
 ul { margin: 0; padding-left: 3.5mm; }
 .cautions { font-size: 6.2pt; line-height: 1.15; }
 .warn { font-size: 6.6pt; }
@@ -1175,7 +1185,11 @@ ul { margin: 0; padding-left: 3.5mm; }
 /// One winding's box on the HTML card.
 fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool, look: &Look) -> String {
     let mut s = String::new();
-    s += "<div class=\"w\">";
+    if p.verdict.ok {
+        s += "<div class=\"w\">";
+    } else {
+        s += "<div class=\"w void\"><div class=\"stamp\">NOT TO BE WOUND: the design does not pass</div>";
+    }
     let _ = write!(
         s,
         "<h2>{} &#160;{} &#8220;{}&#8221; &#8212; {}</h2>",

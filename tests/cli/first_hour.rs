@@ -118,8 +118,14 @@ fn a_card_that_does_not_pass_says_so_first() {
         banner < html.find("<h1>").expect("title"),
         "the banner comes before the title"
     );
+    // Every winding's instructions are marked as not to be wound, in every format.
+    let windings = bad.matches("[[winding]]").count();
+    assert_eq!(text.matches("NOT TO BE WOUND").count(), windings, "{text}");
+    assert_eq!(html.matches("class=\"w void\"").count(), windings);
+    let md = run(&["card", &p, "--format", "markdown"]).ok().stdout;
+    assert_eq!(md.matches("not to be wound").count(), windings, "{md}");
     let good = run(&["card", "examples/garage_charger.toml"]).ok().stdout;
-    assert!(!good.contains("DO NOT WIND"));
+    assert!(!good.contains("DO NOT WIND") && !good.contains("NOT TO BE WOUND"));
 }
 
 #[test]
