@@ -1164,7 +1164,7 @@ h3 { font-size: 8pt; margin: 0.8mm 0 0.5mm 0; }
 .verdict { font-weight: bold; font-size: 8.6pt; border: 0.5mm solid #000; padding: 0.8mm 1.5mm; margin: 1mm 0; }
 .verdict.fail { border-style: dashed; }
 .w.void { border-style: dashed; background: repeating-linear-gradient(135deg, #fff 0 3mm, #f1f1f1 3mm 6mm); }
-.stamp { font-weight: bold; font-size: 7pt; letter-spacing: 0.2pt; }
+.stamp { font-weight: bold; letter-spacing: 0.2pt; border: 0.3mm solid #000; padding: 0 0.8mm; }
 ul { margin: 0; padding-left: 3.5mm; }
 .cautions { font-size: 6.2pt; line-height: 1.15; }
 .warn { font-size: 6.6pt; }
@@ -1188,15 +1188,20 @@ fn html_winding(p: &Plan, w: &WindingPlan, k: usize, last: bool, look: &Look) ->
     if p.verdict.ok {
         s += "<div class=\"w\">";
     } else {
-        s += "<div class=\"w void\"><div class=\"stamp\">NOT TO BE WOUND: the design does not pass</div>";
+        s += "<div class=\"w void\">";
     }
     let _ = write!(
         s,
-        "<h2>{} &#160;{} &#8220;{}&#8221; &#8212; {}</h2>",
+        "<h2>{} &#160;{} &#8220;{}&#8221; &#8212; {}{}</h2>",
         k + 1,
         esc(role_word(w)),
         esc(&w.name),
-        esc(&volts_amps(p, w))
+        esc(&volts_amps(p, w)),
+        if p.verdict.ok {
+            ""
+        } else {
+            " <span class=\"stamp\">NOT TO BE WOUND</span>"
+        }
     );
     let legs = if p.core.shape == Shape::Ui {
         format!(
@@ -1391,7 +1396,7 @@ pub fn html_card(p: &Plan, o: &CardOptions) -> String {
         "<script>var ironwindAvailMm={:.1};</script>",
         page_h - 1.0
     );
-    s += "<script>(function(){var p=document.querySelector('.page');if(!p)return;var mm=96/25.4,avail=ironwindAvailMm*mm;var h=p.getBoundingClientRect().height;if(h>avail){var r=Math.max(0.5,0.92*avail/h);var f=document.createElement('div');f.className='fit';f.style.height=avail+'px';f.style.overflow='hidden';p.parentNode.insertBefore(f,p);f.appendChild(p);p.style.transformOrigin='0 0';p.style.transform='scale('+r+')';}})();</script>";
+    s += "<script>(function(){var p=document.querySelector('.page');if(!p)return;var mm=96/25.4,avail=ironwindAvailMm*mm;var h=p.getBoundingClientRect().height;if(h>avail){var r=Math.max(0.3,0.92*avail/h);var f=document.createElement('div');f.className='fit';f.style.height=avail+'px';f.style.overflow='hidden';p.parentNode.insertBefore(f,p);f.appendChild(p);p.style.transformOrigin='0 0';p.style.transform='scale('+r+')';}})();</script>";
     s += "</body></html>\n";
     s
 }
