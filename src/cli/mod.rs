@@ -285,18 +285,15 @@ fn clap_error(e: &clap::Error) -> i32 {
             2
         }
         _ => {
-            // One line, like every other error: clap's message with its hints folded in.
+            // One line, like every other error: clap's message with its hints and its usage line
+            // folded in.
             let text = e.render().to_string();
             let parts: Vec<&str> = text
                 .lines()
                 .map(str::trim)
-                .filter(|l| {
-                    !l.is_empty()
-                        && !l.starts_with("For more information")
-                        && !l.starts_with("Usage:")
-                })
+                .filter(|l| !l.is_empty() && !l.starts_with("For more information"))
                 .collect();
-            let joined = parts.join("; ");
+            let joined = parts.join("; ").replace(":; ", ": ");
             let joined = joined.strip_prefix("error: ").unwrap_or(&joined);
             say(&format!("error: command line: {joined} (see --help)"));
             2

@@ -292,3 +292,19 @@ fn every_manual_page_the_pages_name_exists() {
     assert!(one.contains(".TH ironwind-shelf-rank 1"), "{one}");
     run(&["manpage", "nope"]).code(2).one_line_error();
 }
+
+#[test]
+fn clap_errors_keep_their_usage_line_on_one_line() {
+    let r = run(&["plan"]).code(2).one_line_error();
+    assert!(
+        r.stderr.contains("Usage: ironwind plan <JOB>"),
+        "{}",
+        r.stderr
+    );
+    let r = run(&["plan", "x.toml", "--bogus"]).code(2).one_line_error();
+    assert!(
+        r.stderr.contains("--bogus") && r.stderr.contains("Usage:"),
+        "{}",
+        r.stderr
+    );
+}
