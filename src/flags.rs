@@ -40,16 +40,8 @@ pub fn flag_length(flag: &str, text: &str) -> Result<f64> {
     Ok(mm)
 }
 
-/// A core from its flags.
-pub fn core_from_flags(
-    tongue: &str,
-    stack: &str,
-    window: &str,
-    shape: Shape,
-    stacking: f64,
-) -> Result<CoreDims> {
-    let a = flag_length("--tongue", tongue)?;
-    let s = flag_length("--stack", stack)?;
+/// A window flag ("16x48", "0.625inx1.875in"): width and height, mm, each > 0 and ≤ 1000 mm.
+pub fn flag_window(window: &str) -> Result<(f64, f64)> {
     let (w, h) = crate::units::parse_window(window)
         .map_err(|m| Error::bad_value(ORIGIN, "--window", format!("\"{window}\""), m))?;
     for (v, what) in [(w, "width"), (h, "height")] {
@@ -62,6 +54,20 @@ pub fn core_from_flags(
             ));
         }
     }
+    Ok((w, h))
+}
+
+/// A core from its flags.
+pub fn core_from_flags(
+    tongue: &str,
+    stack: &str,
+    window: &str,
+    shape: Shape,
+    stacking: f64,
+) -> Result<CoreDims> {
+    let a = flag_length("--tongue", tongue)?;
+    let s = flag_length("--stack", stack)?;
+    let (w, h) = flag_window(window)?;
     if !(stacking > 0.5 && stacking <= 1.0) {
         return Err(Error::bad_value(
             ORIGIN,

@@ -129,34 +129,6 @@ impl<'de> Deserialize<'de> for LengthInput {
     }
 }
 
-#[cfg(test)]
-mod fraction_tests {
-    use super::*;
-
-    #[test]
-    fn fractional_inches_as_a_us_rule_reads_them() {
-        // 1 1/4 in = 1.25 in = 31.75 mm exactly (the inch is 25.4 mm by definition).
-        for (text, mm) in [
-            ("1 1/4 in", 31.75),
-            ("1-1/4 in", 31.75),
-            ("3/4\"", 19.05),
-            ("3/4 inch", 19.05),
-            ("2 1/2 inches", 63.5),
-        ] {
-            let got = parse_length_mm(text).expect(text);
-            assert!((got - mm).abs() < 1e-9, "{text}: {got}");
-        }
-        assert!(
-            parse_length_mm("5/4 in").is_err(),
-            "an improper fraction is refused"
-        );
-        let e = parse_length_mm("12 furlongs").expect_err("unknown");
-        assert!(e.contains("unknown unit"), "{e}");
-        let e = parse_length_mm("12 inc").expect_err("close");
-        assert!(e.contains("did you mean `in"), "{e}");
-    }
-}
-
 /// Parses a window given as `WxH` in millimetres (`16x48`, `19 x 57`, `0.75inx2.25in`).
 pub fn parse_window(text: &str) -> Result<(f64, f64), String> {
     let lower = text.to_ascii_lowercase();
@@ -213,5 +185,33 @@ mod tests {
         assert_relative_eq!(w, 19.05, max_relative = EXACT);
         assert_relative_eq!(h, 57.15, max_relative = EXACT);
         assert!(parse_window("16").is_err());
+    }
+}
+
+#[cfg(test)]
+mod fraction_tests {
+    use super::*;
+
+    #[test]
+    fn fractional_inches_as_a_us_rule_reads_them() {
+        // 1 1/4 in = 1.25 in = 31.75 mm exactly (the inch is 25.4 mm by definition).
+        for (text, mm) in [
+            ("1 1/4 in", 31.75),
+            ("1-1/4 in", 31.75),
+            ("3/4\"", 19.05),
+            ("3/4 inch", 19.05),
+            ("2 1/2 inches", 63.5),
+        ] {
+            let got = parse_length_mm(text).expect(text);
+            assert!((got - mm).abs() < 1e-9, "{text}: {got}");
+        }
+        assert!(
+            parse_length_mm("5/4 in").is_err(),
+            "an improper fraction is refused"
+        );
+        let e = parse_length_mm("12 furlongs").expect_err("unknown");
+        assert!(e.contains("unknown unit"), "{e}");
+        let e = parse_length_mm("12 inc").expect_err("close");
+        assert!(e.contains("did you mean `in"), "{e}");
     }
 }

@@ -17,7 +17,8 @@ fn chromium() -> Option<PathBuf> {
     .find(|p| p.exists())
 }
 
-fn headless(browser: &Path, profile: &Path, args: &[String]) -> bool {
+/// Runs headless Chromium with a profile of its own; its output when it ran.
+fn headless_run(browser: &Path, profile: &Path, args: &[String]) -> Option<std::process::Output> {
     Command::new(browser)
         .args([
             "--headless",
@@ -33,8 +34,11 @@ fn headless(browser: &Path, profile: &Path, args: &[String]) -> bool {
         .arg(format!("--user-data-dir={}", profile.display()))
         .args(args)
         .output()
-        .map(|o| o.status.success())
-        .unwrap_or(false)
+        .ok()
+}
+
+fn headless(browser: &Path, profile: &Path, args: &[String]) -> bool {
+    headless_run(browser, profile, args).is_some_and(|o| o.status.success())
 }
 
 /// Pages in a PDF: the page objects (`/Type /Page`, not `/Pages`).
@@ -197,21 +201,12 @@ fn html_cards_print_on_one_page_of_every_paper_and_render() {
             let probed = dir.join(format!("{stem}-{paper}-probe.html"));
             let page = std::fs::read_to_string(&html).expect("html");
             std::fs::write(&probed, page.replace("</body>", PROBE)).expect("probe");
-            let dom = Command::new(&browser)
-                .args([
-                    "--headless",
-                    "--no-sandbox",
-                    "--disable-gpu",
-                    "--no-first-run",
-                ])
-                .arg(format!(
-                    "--user-data-dir={}",
-                    dir.join(format!("profile-dom-{stem}-{paper}")).display()
-                ))
-                .arg("--dump-dom")
-                .arg(format!("file://{}", probed.display()))
-                .output()
-                .expect("chromium runs");
+            let dom = headless_run(
+                &browser,
+                &dir.join(format!("profile-dom-{stem}-{paper}")),
+                &["--dump-dom".into(), format!("file://{}", probed.display())],
+            )
+            .expect("chromium runs");
             let dom = String::from_utf8_lossy(&dom.stdout);
             assert!(
                 dom.contains("data-layout=\"clean\""),

@@ -303,6 +303,7 @@ fn clap_error(e: &clap::Error) -> i32 {
 
 fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
     let no_color_env = std::env::var_os("NO_COLOR").is_some_and(|v| !v.is_empty());
+    let (width, fit_tables) = text_width();
     let look = Look {
         charset: if cli.ascii {
             Charset::Ascii
@@ -318,8 +319,8 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<i32> {
             ColorArg::Never => false,
             ColorArg::Auto => std::io::stdout().is_terminal() && !no_color_env,
         },
-        width: text_width().0,
-        fit_tables: text_width().1,
+        width,
+        fit_tables,
         quiet: cli.quiet,
     };
     let ctx = Ctx {

@@ -269,10 +269,7 @@ fn answers(a: &Args, asker: &Asker) -> Result<Starter> {
     };
     let tongue = length("--tongue", &a.tongue, "Tongue width, mm (or \"1.25 in\")")?;
     let stack = length("--stack", &a.stack, "Stack depth, mm")?;
-    let window_check = |s: &str| {
-        crate::flags::core_from_flags("1", "1", s, shape, 0.95)
-            .map(|c| (c.window_width_mm, c.window_height_mm, s.to_string()))
-    };
+    let window_check = |s: &str| crate::flags::flag_window(s).map(|(w, h)| (w, h, s.to_string()));
     let window = match &a.window {
         Some(w) => window_check(w)?,
         None => asker.value(

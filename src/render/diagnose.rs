@@ -62,7 +62,7 @@ pub fn write(
         "{}\n",
         look.heading(&format!("ironwind diagnose: {}", d.job))
     );
-    s += &super::card::wrap(
+    s += &super::wrap(
         &format!(
             "readings at {} V on the primary, resistances at {} °C (corrected to 20 °C, IEC 60028)",
             num(d.measured.applied_volts, 1),
@@ -92,10 +92,10 @@ pub fn write(
     if d.findings.is_empty() {
         s += "no readings to compare: give volts or ohms of a winding, or idle watts\n";
     } else {
-        s += &super::card::wrap_table(rows, look);
+        s += &super::wrap_table(rows, look);
     }
     s += "\n";
-    s += &super::card::wrap(
+    s += &super::wrap(
         &format!(
             "volts per turn these readings imply: {} V{}",
             num(d.volts_per_turn, 4),

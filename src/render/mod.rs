@@ -297,6 +297,49 @@ pub fn pairs(rows: &[(&str, String)], look: impl Borrow<Look>) -> String {
     t.to_string() + "\n"
 }
 
+/// A table whose long cells are wrapped so the whole fits the look's width.
+pub fn wrap_table(mut rows: Vec<Vec<String>>, look: &Look) -> String {
+    let cols = rows.first().map(Vec::len).unwrap_or(0);
+    if cols == 0 {
+        return String::new();
+    }
+    // Columns but the last two keep their widths; the last two share what is left.
+    let fixed: usize = (0..cols.saturating_sub(2))
+        .map(|c| rows.iter().map(|r| r[c].chars().count()).max().unwrap_or(0) + 3)
+        .sum();
+    let room = look.width.saturating_sub(fixed + 7).max(20) / 2;
+    for r in rows.iter_mut() {
+        for cell in r.iter_mut().skip(cols.saturating_sub(2)) {
+            *cell = wrap(cell, room, "", "").trim_end().to_string();
+        }
+    }
+    table(rows, 99, look)
+}
+
+/// Wraps `text` to `width` columns with `indent` on continuation lines.
+pub fn wrap(text: &str, width: usize, first: &str, indent: &str) -> String {
+    let mut out = String::new();
+    let mut line = first.to_string();
+    let mut empty = true;
+    for word in text.split_whitespace() {
+        let need = line.chars().count() + if empty { 0 } else { 1 } + word.chars().count();
+        if !empty && need > width {
+            out += line.trim_end();
+            out += "\n";
+            line = indent.to_string();
+            empty = true;
+        }
+        if !empty {
+            line.push(' ');
+        }
+        line += word;
+        empty = false;
+    }
+    out += line.trim_end();
+    out += "\n";
+    out
+}
+
 /// A number with `d` decimals; NaN and infinities as words (they should never reach a person).
 pub fn num(v: f64, d: usize) -> String {
     if v.is_finite() {

@@ -21,7 +21,7 @@ pub fn write_demo_intro(out: &mut dyn Write, look: &Look) -> std::io::Result<()>
     if look.quiet {
         return Ok(());
     }
-    let text = super::card::wrap(
+    let text = super::wrap(
         "The bundled example (examples/garage_charger.toml), planned end to end.",
         look.width,
         "",
@@ -157,10 +157,10 @@ fn drive_section(plan: &Plan, look: Look) -> String {
     s += "\nDrive\n";
     s += &pairs(&drive, look);
     if let Some(n) = &d.kept_output_note {
-        s += &super::card::wrap(&words::kept_output_note(n), look.width, "", "  ");
+        s += &super::wrap(&words::kept_output_note(n), look.width, "", "  ");
     }
     if let Some(k) = &d.kept_limit {
-        s += &super::card::wrap(&words::kept_limit(k), look.width, "", "  ");
+        s += &super::wrap(&words::kept_limit(k), look.width, "", "  ");
     }
     if let Some(p) = &plan.probe {
         let mut rows = Vec::new();
@@ -246,7 +246,7 @@ fn windings_section(plan: &Plan, look: Look) -> String {
     }
     for w in &plan.windings {
         for note in words::built_notes(plan, w) {
-            s += &super::card::wrap(&note, look.width, "", "  ");
+            s += &super::wrap(&note, look.width, "", "  ");
         }
     }
     s
@@ -400,7 +400,7 @@ fn window_section(plan: &Plan, look: Look) -> String {
         .iter()
         .filter(|w| w.adiabatic_rise_c.is_some())
     {
-        s += &super::card::wrap(&words::adiabatic_note(w), look.width, "", "  ");
+        s += &super::wrap(&words::adiabatic_note(w), look.width, "", "  ");
     }
     s
 }
@@ -411,7 +411,7 @@ pub fn warnings_and_verdict(plan: &Plan, look: Look) -> String {
     if !plan.warnings.is_empty() {
         s += "\nWarnings\n";
         for w in &plan.warnings {
-            s += &super::card::wrap(&words::warning(w), look.width, "  ! ", "    ");
+            s += &super::wrap(&words::warning(w), look.width, "  ! ", "    ");
         }
     } else {
         s += "\n";
@@ -433,7 +433,7 @@ pub fn warnings_and_verdict(plan: &Plan, look: Look) -> String {
     s += &table(rows, 99, look);
     s += "\nCautions\n";
     for c in plan.cautions {
-        s += &super::card::wrap(c, look.width, "  * ", "    ");
+        s += &super::wrap(c, look.width, "  * ", "    ");
     }
     s
 }

@@ -145,11 +145,11 @@ pub fn probe_text(r: &ProbeReport, look: &Look) -> String {
         s += &format!("\n{}\n", look.heading("Warnings"));
         for w in &r.warnings {
             let mark = format!("  {} ", look.mark("!", false));
-            s += &super::card::wrap(&words::warning(w), look.width, &mark, "    ");
+            s += &super::wrap(&words::warning(w), look.width, &mark, "    ");
         }
     }
     s += "\n";
-    s += &super::card::wrap("Caution: power probe tests only through a fuse and a current limit (series lamp or isolating variable transformer); remove a microwave-oven donor's high-voltage winding first; keep one hand away.", look.width, "", "  ");
+    s += &super::wrap("Caution: power probe tests only through a fuse and a current limit (series lamp or isolating variable transformer); remove a microwave-oven donor's high-voltage winding first; keep one hand away.", look.width, "", "  ");
     s
 }
 

@@ -157,11 +157,11 @@ pub fn rate_text(r: &Rating, look: &Look) -> String {
     }
     s += "\n";
     for n in r.notes.iter().filter(|_| !look.quiet) {
-        s += &super::card::wrap(&words::rate_note(n), look.width, "note: ", "      ");
+        s += &super::wrap(&words::rate_note(n), look.width, "note: ", "      ");
     }
     s += "\nCautions\n";
     for c in r.cautions {
-        s += &super::card::wrap(c, look.width, "  * ", "    ");
+        s += &super::wrap(c, look.width, "  * ", "    ");
     }
     s
 }

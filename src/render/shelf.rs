@@ -397,7 +397,7 @@ pub fn write_rank(
     }
     let s = look.finish(table(t, 99, look));
     let carrying = r.ranked.iter().filter(|c| c.carries).count();
-    let head = super::card::wrap(
+    let head = super::wrap(
         &format!(
             "\"{}\" ({} VA) on {} cores: {carrying} shown carry it",
             visible(&r.job),
