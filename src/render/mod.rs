@@ -451,4 +451,21 @@ mod tests {
         }
         assert_eq!(asciify("é"), "?", "an unknown symbol still becomes ASCII");
     }
+
+    #[test]
+    fn imperial_figures_match_their_definitions() {
+        // NIST SP 811 (2008), B.8: 1 in = 2.54 cm exactly, so 1 in⁴ = 41.623 142 56 cm⁴; the
+        // avoirdupois ounce = 28.349 523 125 g; 1 lb = 0.453 592 37 kg. A circular mil is the
+        // area of a circle 0.001 in across, π/4 × (0.0254 mm)² = 5.067e-4 mm² (ASTM B258), so
+        // 1 A/mm² = 1973.5 cmil/A.
+        let look = Look {
+            units: Units::Imperial,
+            ..Look::default()
+        };
+        assert_eq!(look.cm4(41.623_142_56, 2), "1.000 in⁴ (41.62 cm⁴)");
+        assert_eq!(look.g(28.349_523_125 * 12.0, 0), "12.0 oz (340 g)");
+        assert_eq!(look.kg(0.453_592_37 * 5.0, 3), "5.000 lb (2.268 kg)");
+        assert_eq!(look.density(3.0), "658 cmil/A (3.00 A/mm²)");
+        assert_eq!(look.density_bare(1.0), "1974");
+    }
 }
