@@ -20,6 +20,7 @@ pub mod magnetics;
 pub mod plan;
 pub mod probe;
 pub mod rate;
+pub mod rectifier;
 pub mod render;
 pub mod shelf;
 pub mod store;
