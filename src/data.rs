@@ -27,7 +27,9 @@ pub const WIRE_SWG_CSV: &str = include_str!("../data/wire_swg.csv");
 /// The text of `data/steel.csv`.
 pub const STEEL_CSV: &str = include_str!("../data/steel.csv");
 /// Version label of the embedded data tables (bump when a table changes).
-pub const DATA_VERSION: &str = "wire_awg 1, wire_metric 1, wire_swg 1, steel 2";
+pub const DATA_VERSION: &str = "wire_awg 1, wire_metric 1, wire_swg 1, steel 3, magnetisation 1";
+/// The text of `data/magnetisation.csv`.
+pub const MAGNETISATION_CSV: &str = include_str!("../data/magnetisation.csv");
 
 /// One AWG row.
 #[derive(Debug, Clone, Deserialize)]
@@ -91,7 +93,22 @@ pub struct SteelRow {
     pub eddy_share: f64,
     /// Share that is excess (anomalous) loss (from memory).
     pub excess_share: f64,
+    /// Remanent flux density of a stacked core, T (from memory; for the inrush estimate).
+    pub remanence_t: f64,
     /// Where the row's numbers come from.
+    pub source: String,
+}
+
+/// One point of a magnetisation curve (H at B) for a steel kind.
+#[derive(Debug, Clone, Deserialize)]
+pub struct MagnetisationRow {
+    /// The kind of steel (`unknown`, `non-oriented`, `grain-oriented`).
+    pub kind: String,
+    /// Flux density, T.
+    pub b_t: f64,
+    /// Field strength, A/m.
+    pub h_a_per_m: f64,
+    /// Where the point comes from.
     pub source: String,
 }
 
@@ -129,6 +146,12 @@ pub fn swg() -> &'static [SwgRow] {
     parsed(&CELL, WIRE_SWG_CSV)
 }
 
+/// The magnetisation table, by kind, rising B.
+pub fn magnetisation() -> &'static [MagnetisationRow] {
+    static CELL: OnceLock<Vec<MagnetisationRow>> = OnceLock::new();
+    parsed(&CELL, MAGNETISATION_CSV)
+}
+
 /// The steel table.
 pub fn steel() -> &'static [SteelRow] {
     static CELL: OnceLock<Vec<SteelRow>> = OnceLock::new();
@@ -147,6 +170,15 @@ mod tests {
             33
         );
         assert_eq!(parse::<SteelRow>(STEEL_CSV).expect("steel").len(), 3);
+        let mag = parse::<MagnetisationRow>(MAGNETISATION_CSV).expect("magnetisation");
+        for kind in ["unknown", "non-oriented", "grain-oriented"] {
+            let pts: Vec<_> = mag.iter().filter(|r| r.kind == kind).collect();
+            assert!(pts.len() >= 5, "{kind}");
+            assert!(pts
+                .windows(2)
+                .all(|w| w[1].b_t > w[0].b_t && w[1].h_a_per_m > w[0].h_a_per_m));
+            assert!(pts.iter().all(|r| !r.source.is_empty()));
+        }
         assert_eq!(parse::<SwgRow>(WIRE_SWG_CSV).expect("swg").len(), 37);
     }
 

@@ -143,6 +143,8 @@ pub struct SteelInfo {
     pub design_flux_t: f64,
     /// How its sine loss divides (for square and quasi-square drives).
     pub shares: LossShares,
+    /// Remanent flux density of a stacked core, T (from memory; the inrush estimate).
+    pub remanence_t: f64,
 }
 
 /// Reads a steel name. Accepted: the names of `data/steel.csv`, or an IEC 60404-8 grade
@@ -161,6 +163,7 @@ pub fn steel_info(name: &str) -> Result<SteelInfo, String> {
                 eddy: row.eddy_share,
                 excess: row.excess_share,
             },
+            remanence_t: row.remanence_t,
         });
     }
     let upper = name.trim().to_ascii_uppercase();
@@ -191,6 +194,7 @@ pub fn steel_info(name: &str) -> Result<SteelInfo, String> {
     };
     let row = kind_row(kind);
     let flux = row.as_ref().map(|r| r.design_flux_t).unwrap_or(1.2);
+    let remanence_t = row.as_ref().map(|r| r.remanence_t).unwrap_or(0.9);
     let shares = row
         .map(|r| LossShares {
             hysteresis: r.hysteresis_share,
@@ -204,6 +208,7 @@ pub fn steel_info(name: &str) -> Result<SteelInfo, String> {
         loss_w_per_kg_1t5: p15,
         design_flux_t: flux,
         shares,
+        remanence_t,
     })
 }
 
