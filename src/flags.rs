@@ -241,6 +241,8 @@ fn winding(name: &str, role: Role, volts: f64, amps: f64) -> WindingSpec {
         rated_volts: None,
         resistance_ohm: None,
         build_mm: None,
+        dc: None,
+        power_factor: 1.0,
     }
 }
 

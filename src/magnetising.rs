@@ -19,6 +19,7 @@
 use crate::leakage::MU0;
 use crate::magnetics::Waveform;
 use std::f64::consts::PI;
+use std::sync::OnceLock;
 
 /// Saturation flux density of silicon steel for the inrush estimate, T (common practice).
 pub const SATURATION_FOR_INRUSH_T: f64 = 2.0;
@@ -29,42 +30,54 @@ pub const JOINTS: f64 = 2.0;
 /// The inrush a soft start should hold to, × rated current (DESIGN.md).
 pub const INRUSH_LIMIT_MULTIPLE: f64 = 10.0;
 
-/// H at B for a steel kind, A/m (an unknown kind reads as `unknown`).
+/// The table's points of one kind, (B, ln H), rising.
+fn table(kind: &str) -> &'static [(f64, f64)] {
+    static CELL: OnceLock<Vec<(String, Vec<(f64, f64)>)>> = OnceLock::new();
+    let all = CELL.get_or_init(|| {
+        let mut kinds: Vec<(String, Vec<(f64, f64)>)> = Vec::new();
+        for r in crate::data::magnetisation() {
+            let pt = (r.b_t, r.h_a_per_m.ln());
+            match kinds.iter_mut().find(|(k, _)| *k == r.kind) {
+                Some((_, v)) => v.push(pt),
+                None => kinds.push((r.kind.clone(), vec![pt])),
+            }
+        }
+        kinds
+    });
+    all.iter()
+        .find(|(k, _)| k == kind)
+        .or_else(|| all.iter().find(|(k, _)| k == "unknown"))
+        .map(|(_, v)| v.as_slice())
+        .unwrap_or(&[])
+}
+
+/// H at B for a steel kind, A/m (a kind not in the table reads as `unknown`).
 pub fn h_at(kind: &str, b_t: f64) -> f64 {
-    let rows: Vec<(f64, f64)> = crate::data::magnetisation()
-        .iter()
-        .filter(|r| r.kind == kind)
-        .map(|r| (r.b_t, r.h_a_per_m))
-        .collect();
-    let rows = if rows.is_empty() && kind != "unknown" {
-        return h_at("unknown", b_t);
-    } else {
-        rows
-    };
+    let rows = table(kind);
     let b = b_t.abs();
     let (Some(first), Some(last)) = (rows.first(), rows.last()) else {
         return 0.0;
     };
     let h = if b <= first.0 {
-        first.1 * b / first.0
+        first.1.exp() * b / first.0
     } else if b >= last.0 {
-        last.1 + (b - last.0) / MU0
+        last.1.exp() + (b - last.0) / MU0
     } else {
-        let k = rows.iter().position(|r| r.0 >= b).unwrap_or(rows.len() - 1);
+        let k = rows.iter().position(|r| r.0 >= b).unwrap_or(rows.len() - 1).max(1);
         let (lo, hi) = (rows[k - 1], rows[k]);
         let t = (b - lo.0) / (hi.0 - lo.0);
-        (lo.1.ln() + t * (hi.1.ln() - lo.1.ln())).exp()
+        (lo.1 + t * (hi.1 - lo.1)).exp()
     };
     h.copysign(b_t)
 }
 
-/// The flux over one cycle, as a fraction of its peak, at `n` equal steps from θ = 0 (the volts'
-/// rising zero crossing): −cos θ for sine; a ramp while the volts are on for square and
+/// The flux over one cycle, as a fraction of its peak, at the middles of `n` equal steps from θ = 0
+/// (the volts' rising zero crossing): −cos θ for sine; a ramp while the volts are on for square and
 /// quasi-square drive.
 pub fn flux_shape(waveform: Waveform, n: usize) -> Vec<f64> {
     (0..n)
         .map(|k| {
-            let th = 2.0 * PI * k as f64 / n as f64;
+            let th = 2.0 * PI * (k as f64 + 0.5) / n as f64;
             match waveform {
                 Waveform::Sine => -th.cos(),
                 Waveform::Square => ramp(th, 1.0),

@@ -147,8 +147,8 @@ pub struct Solution {
     pub peak_amps: f64,
     /// How long each pulse of current lasts, electrical degrees.
     pub conduction_deg: f64,
-    /// The winding's current over one cycle (a centre tap: half one's less half two's), sampled at
-    /// 2·STEPS points from θ = 0.
+    /// The winding's current over one cycle (a centre tap: half one's less half two's) at the
+    /// middles of 2·STEPS equal steps from θ = 0.
     pub wave: Vec<f64>,
     /// Newton iterations taken.
     pub iterations: u32,
@@ -717,8 +717,15 @@ fn report(c: &Circuit, run: &Run, x: &State, iterations: u32, converged: bool) -
     };
     let mut wave = Vec::with_capacity(2 * STEPS);
     run.run(*x, 0, 2 * STEPS, Some(&mut t), Some(&mut wave));
-    // The record holds each step's end; rotate so the sample at θ = 0 comes first.
-    wave.rotate_right(1);
+    // The record holds each step's end; the waveform is taken at each step's middle (the mean of its
+    // two ends), the grid every waveform of the plan shares.
+    let first = wave.last().copied().unwrap_or(0.0);
+    let mut prev = first;
+    for v in wave.iter_mut() {
+        let end = *v;
+        *v = (prev + end) / 2.0;
+        prev = end;
+    }
     let period = 1.0 / c.frequency_hz;
     let pulses = if c.symmetric() { 2.0 } else { 1.0 };
     let half_share = if c.rectifier == Rectifier::CentreTap {

@@ -114,6 +114,23 @@ pub enum CheckFigures {
         /// Fixed turns and no volts to compare with: the check only reports.
         fixed_no_target: bool,
     },
+    /// A rectified output's DC volts (a battery charger's mean charge current) at full load.
+    DcOutput {
+        /// The output's name.
+        winding: String,
+        /// DC volts reached at full load (a battery: the mean charge current, A).
+        reached: f64,
+        /// The target: DC volts (a battery: the charge current wanted, A).
+        target: f64,
+        /// The mean DC current (a battery: its terminal volts).
+        other: f64,
+        /// Whether the figure is a battery's charge current (A) rather than DC volts.
+        charge_current: bool,
+        /// The most the winding reaches at any turns, when short.
+        max: Option<f64>,
+        /// Fixed turns: how far either way the figure may be, %.
+        tolerance_pct: Option<f64>,
+    },
     /// The hottest copper against the insulation class.
     InsulationClass {
         /// Hot-spot copper temperature, °C.
@@ -143,7 +160,7 @@ impl Check {
             CheckFigures::Heating { .. } => CheckKind::Heating,
             CheckFigures::CurrentDensity { .. } => CheckKind::CurrentDensity,
             CheckFigures::PrimaryCurrent { .. } => CheckKind::PrimaryCurrent,
-            CheckFigures::Output { .. } => CheckKind::Output,
+            CheckFigures::Output { .. } | CheckFigures::DcOutput { .. } => CheckKind::Output,
             CheckFigures::InsulationClass { .. } => CheckKind::InsulationClass,
         }
     }
@@ -156,7 +173,9 @@ impl Check {
             CheckFigures::Heating { .. } => "heating".to_string(),
             CheckFigures::CurrentDensity { .. } => "current density".to_string(),
             CheckFigures::PrimaryCurrent { .. } => "primary current".to_string(),
-            CheckFigures::Output { winding, .. } => format!("output {winding}"),
+            CheckFigures::Output { winding, .. } | CheckFigures::DcOutput { winding, .. } => {
+                format!("output {winding}")
+            }
             CheckFigures::InsulationClass { .. } => "insulation class".to_string(),
         }
     }

@@ -17,6 +17,7 @@ use crate::wire::{Grade, System, WireRequest, CMIL_PER_A_AT_1_A_MM2};
 use serde::Deserialize;
 
 pub mod starter;
+mod dc;
 mod winding;
 
 /// Largest job file read, bytes (a job is a few hundred bytes; this refuses a wrong file early).
@@ -221,6 +222,40 @@ pub struct WindingSpec {
     pub resistance_ohm: Option<f64>,
     /// Measured build of a kept winding, mm.
     pub build_mm: Option<f64>,
+    /// A rectified output's DC load (then `volts` and `amps` are the plan's first guesses).
+    pub dc: Option<DcLoad>,
+    /// Power factor of an AC output's load (lagging; 1 for a resistive load).
+    pub power_factor: f64,
+}
+
+/// A rectified output (DESIGN.md, "Loads as they are drawn").
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct DcLoad {
+    /// Bridge, centre tap or half-wave (a bridge on a centre-tapped winding gives ± rails).
+    pub rectifier: crate::rectifier::Rectifier,
+    /// Capacitor, choke, battery or resistive.
+    pub filter: crate::rectifier::Filter,
+    /// Mean DC volts at full load, V (battery: its EMF); each rail's for ± rails.
+    pub dc_volts: f64,
+    /// Mean DC current at full load, A (battery: the mean charge current wanted); each rail's.
+    pub dc_amps: f64,
+    /// Filter capacitor, µF.
+    pub capacitor_uf: f64,
+    /// Choke, H.
+    pub choke_h: f64,
+    /// The choke's resistance, Ω.
+    pub choke_ohm: f64,
+    /// A battery's internal resistance, Ω.
+    pub battery_ohm: f64,
+    /// Drop of one diode, V.
+    pub diode_drop_v: f64,
+}
+
+impl DcLoad {
+    /// Whether this is a bridge on a centre-tapped winding: two rails, ± dc_volts.
+    pub fn dual_rails(&self, centre_tap: bool) -> bool {
+        centre_tap && self.rectifier == crate::rectifier::Rectifier::Bridge
+    }
 }
 
 /// A checked job.

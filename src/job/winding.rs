@@ -24,11 +24,11 @@ pub const MIN_AMPS: f64 = 1e-6;
 pub(super) struct RawWinding {
     name: String,
     role: String,
-    volts: Option<f64>,
-    amps: Option<f64>,
+    pub(super) volts: Option<f64>,
+    pub(super) amps: Option<f64>,
     turns: Option<u32>,
     volts_tolerance_pct: Option<f64>,
-    centre_tap: Option<bool>,
+    pub(super) centre_tap: Option<bool>,
     sections: Option<u32>,
     bifilar: Option<bool>,
     section: Option<u32>,
@@ -46,6 +46,16 @@ pub(super) struct RawWinding {
     resistance_ohm: Option<f64>,
     build_mm: Option<LengthInput>,
     current_density_a_mm2: Option<f64>,
+    pub(super) rectifier: Option<String>,
+    pub(super) filter: Option<String>,
+    pub(super) dc_volts: Option<f64>,
+    pub(super) dc_amps: Option<f64>,
+    pub(super) capacitor_uf: Option<f64>,
+    pub(super) choke_h: Option<f64>,
+    pub(super) choke_ohm: Option<f64>,
+    pub(super) battery_ohm: Option<f64>,
+    pub(super) diode_drop_v: Option<f64>,
+    pub(super) power_factor: Option<f64>,
 }
 
 /// Every `[[winding]]`, in order, each checked on its own.
@@ -121,29 +131,28 @@ fn winding_table(
         Some(n) => return Err(c.fail(&key("turns"), n, format!("must be ≥ 1 and ≤ {MAX_TURNS}"))),
         None => None,
     };
-    let volts = match (rw.volts, fixed_turns, role) {
-        (Some(v), _, _) => c.range(&key("volts"), v, MIN_VOLTS, true, 100_000.0, "V")?,
-        (None, Some(_), Role::Secondary) => 0.0,
-        (None, _, Role::Primary) => return Err(c.fail(
-            &key("volts"),
-            "(missing)",
-            "the primary needs its volts (RMS for sine, amplitude for square), > 0 and ≤ 100000 V",
-        )),
-        (None, None, Role::Secondary) => {
-            return Err(c.fail(
-                &key("volts"),
-                "(missing)",
-                "an output needs its volts, > 0 and ≤ 100000 V, or fixed turns (turns = N)",
-            ))
-        }
+    let dc = super::dc::dc_load(c, rw, role, &key)?;
+    let power_factor = super::dc::power_factor(c, rw, role, dc.is_some(), &key)?;
+    let (volts, amps) = match dc {
+        Some(d) => super::dc::first_guess(&d, rw.centre_tap.unwrap_or(false)),
+        None => volts_amps(c, rw, role, fixed_turns, &key)?,
     };
-    let amps = amps_of(c, rw, role, &key)?;
     let build = built_as(c, rw, role, split, &key)?;
+    if let Some(d) = &dc {
+        super::dc::fits_build(c, d, &build_shape(&build), &key)?;
+    }
     let wire = wire_request(c, rw, grade, &key)?;
     let density = match rw.current_density_a_mm2 {
         Some(d) => Some(c.range(&key("current_density_a_mm2"), d, 0.1, true, 20.0, "A/mm²")?),
         None => None,
     };
+    if dc.is_some() && rw.taps_volts.is_some() {
+        return Err(c.fail(
+            &key("taps_volts"),
+            "(with rectifier)",
+            "taps are AC volts; a rectified output has none (plan a second output for another DC voltage)",
+        ));
+    }
     let taps_volts = taps(c, rw, volts, &key)?;
     let kept = kept_keys(c, rw, &key)?;
     let tolerance = match rw.volts_tolerance_pct {
@@ -154,7 +163,7 @@ fn winding_table(
         name,
         role,
         volts,
-        volts_given: rw.volts.is_some(),
+        volts_given: rw.volts.is_some() || dc.is_some(),
         amps,
         fixed_turns,
         volts_tolerance_pct: tolerance,
@@ -171,7 +180,42 @@ fn winding_table(
         rated_volts: kept.rated_volts,
         resistance_ohm: kept.resistance_ohm,
         build_mm: kept.build_mm,
+        dc,
+        power_factor,
     })
+}
+
+/// The centre tap and sections of a winding, as the rectifier rules read them.
+fn build_shape(b: &Built) -> (bool, u32) {
+    (b.centre_tap, b.sections)
+}
+
+/// An AC winding's volts and amps.
+fn volts_amps(
+    c: &Checker,
+    rw: &RawWinding,
+    role: Role,
+    fixed_turns: Option<u32>,
+    key: &dyn Fn(&str) -> String,
+) -> Result<(f64, f64)> {
+    let volts = match (rw.volts, fixed_turns, role) {
+        (Some(v), _, _) => c.range(&key("volts"), v, MIN_VOLTS, true, 100_000.0, "V")?,
+        (None, Some(_), Role::Secondary) => 0.0,
+        (None, _, Role::Primary) => return Err(c.fail(
+            &key("volts"),
+            "(missing)",
+            "the primary needs its volts (RMS for sine, amplitude for square), > 0 and ≤ 100000 V",
+        )),
+        (None, None, Role::Secondary) => {
+            return Err(c.fail(
+                &key("volts"),
+                "(missing)",
+                "an output needs its volts, > 0 and ≤ 100000 V, or fixed turns (turns = N)",
+            ))
+        }
+    };
+    let amps = amps_of(c, rw, role, key)?;
+    Ok((volts, amps))
 }
 
 /// An output's full-load amps (required); none on the primary, whose current is computed.

@@ -113,6 +113,45 @@ pub struct DriveJson<'a> {
     pub kept_output_note: Option<String>,
     /// The most a kept output gives at the design flux (null otherwise).
     pub kept_limit: Option<KeptLimitJson<'a>>,
+    /// Magnetising current, A RMS (steel table and joints, or the sweep).
+    pub magnetising_amps: f64,
+    /// Predicted idle current (magnetising and core-loss currents), A RMS.
+    pub idle_amps: f64,
+    /// Switch-on inrush, first half cycle (Specht's estimate), A peak.
+    pub inrush_peak_amps: f64,
+    /// The inrush over the rated primary current.
+    pub inrush_multiple: f64,
+    /// Series resistance holding the inrush to 10 × rated, Ω (0: none needed).
+    pub soft_start_ohm: f64,
+}
+
+/// A rectified output's DC figures.
+#[derive(Debug, Serialize)]
+pub struct DcJson {
+    /// `bridge`, `centre-tap` or `half-wave`.
+    pub rectifier: &'static str,
+    /// `capacitor`, `choke`, `battery` or `resistive`.
+    pub filter: &'static str,
+    /// A bridge on a centre-tapped winding: ± rails (the figures are each rail's).
+    pub dual_rails: bool,
+    /// The job's DC volts (a battery: its EMF), V.
+    pub target_volts: f64,
+    /// The job's DC amps (a battery: the charge current wanted), A.
+    pub target_amps: f64,
+    /// Mean DC volts at full load, V.
+    pub volts_full_load: f64,
+    /// DC volts with no load, V.
+    pub volts_no_load: f64,
+    /// Ripple peak to peak, V.
+    pub ripple_pp_v: f64,
+    /// Mean DC current, A.
+    pub amps: f64,
+    /// DC power, W (both rails).
+    pub power_w: f64,
+    /// The winding's VA over the DC power.
+    pub va_per_dc_w: f64,
+    /// Drop of one diode, V.
+    pub diode_drop_v: f64,
 }
 
 /// The most a kept output gives at the design flux.
@@ -175,6 +214,28 @@ pub struct WindingJson<'a> {
     pub sections: u32,
     /// RMS current in one half or section, A.
     pub section_amps: f64,
+    /// RMS current of one half or section, A (the primary: its whole current).
+    pub rms_amps: f64,
+    /// Peak current, A.
+    pub peak_amps: f64,
+    /// Each pulse of current of a rectified output, electrical degrees (null otherwise).
+    pub conduction_deg: Option<f64>,
+    /// V_rms·I_rms of the whole winding, VA.
+    pub va: f64,
+    /// Power to the load, W (0 for the primary).
+    pub output_w: f64,
+    /// The load's power factor.
+    pub power_factor: f64,
+    /// Leakage inductance referred to this winding (one half or section), H.
+    pub leakage_h: f64,
+    /// Leakage reactance referred to it, Ω.
+    pub leakage_reactance_ohm: f64,
+    /// Short-circuit impedance referred to it, Ω (null for the primary).
+    pub short_circuit_ohm: Option<f64>,
+    /// Current with it shorted, the primary at rated volts, A (null for the primary).
+    pub short_circuit_amps: Option<f64>,
+    /// A rectified output's DC figures (null for AC).
+    pub dc: Option<DcJson>,
     /// Centre-tapped.
     pub centre_tap: bool,
     /// Halves or sections wound together.
@@ -451,6 +512,11 @@ fn drive_json(plan: &Plan) -> DriveJson<'_> {
             volts_full_load: k.volts,
             detail: words::kept_limit(k),
         }),
+        magnetising_amps: plan.drive.magnetising_amps,
+        idle_amps: plan.drive.idle_amps,
+        inrush_peak_amps: plan.drive.inrush.peak_amps,
+        inrush_multiple: plan.drive.inrush.multiple_of_rated,
+        soft_start_ohm: plan.drive.inrush.soft_start_ohm,
     }
 }
 
@@ -465,6 +531,30 @@ fn winding_json(w: &WindingPlan) -> WindingJson<'_> {
         turns: w.turns,
         sections: w.sections,
         section_amps: w.section_amps,
+        rms_amps: w.section_amps,
+        peak_amps: w.peak_amps,
+        conduction_deg: w.dc.as_ref().map(|d| d.conduction_deg),
+        va: w.va,
+        output_w: w.output_w,
+        power_factor: w.power_factor,
+        leakage_h: w.leakage_h,
+        leakage_reactance_ohm: w.leakage_reactance_ohm,
+        short_circuit_ohm: w.short_circuit_ohm.filter(|v| v.is_finite()),
+        short_circuit_amps: w.short_circuit_amps.filter(|v| v.is_finite()),
+        dc: w.dc.as_ref().map(|d| DcJson {
+            rectifier: d.load.rectifier.name(),
+            filter: d.load.filter.name(),
+            dual_rails: d.dual_rails,
+            target_volts: d.load.dc_volts,
+            target_amps: d.load.dc_amps,
+            volts_full_load: d.volts_full_load,
+            volts_no_load: d.volts_no_load,
+            ripple_pp_v: d.ripple_pp_v,
+            amps: d.amps,
+            power_w: d.power_w,
+            va_per_dc_w: d.va_per_dc_w,
+            diode_drop_v: d.load.diode_drop_v,
+        }),
         centre_tap: w.centre_tap,
         bifilar: w.bifilar,
         turns_fixed: w.turns_fixed,

@@ -103,6 +103,33 @@ pub fn check_detail_in(c: &Check, units: super::Units) -> String {
             "{volts_full_load:.2} V at {amps:.2} A, short of {target_volts:.2} V; the most it can deliver is {:.2} V",
             max_volts.unwrap_or(*volts_full_load).min(1e9)
         ),
+        CheckFigures::DcOutput {
+            reached,
+            target,
+            other,
+            charge_current,
+            max,
+            tolerance_pct,
+            ..
+        } => {
+            let (unit, o_unit, what) = if *charge_current {
+                ("A", "V", "charge current")
+            } else {
+                ("V DC", "A", "DC volts")
+            };
+            let head = format!("{what} {reached:.2} {unit} at {other:.2} {o_unit}");
+            match (tolerance_pct, c.ok) {
+                (Some(t), _) => format!(
+                    "{head} with fixed turns ({:+.1} % from {target:.2} {unit}; within ±{t:.0} % passes)",
+                    (reached - target) / target * 100.0
+                ),
+                (None, true) => format!("{head} (target {target:.2} {unit})"),
+                (None, false) => format!(
+                    "{head}, short of {target:.2} {unit}; the most it can deliver is {:.2} {unit}",
+                    max.unwrap_or(*reached).min(1e9)
+                ),
+            }
+        }
         CheckFigures::InsulationClass {
             hot_spot_c,
             class,

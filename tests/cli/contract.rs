@@ -62,6 +62,28 @@ struct Drive {
     flux_vs_donor: Option<f64>,
     kept_output_note: Option<String>,
     kept_limit: Option<KeptLimit>,
+    magnetising_amps: f64,
+    idle_amps: f64,
+    inrush_peak_amps: f64,
+    inrush_multiple: f64,
+    soft_start_ohm: f64,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct Dc {
+    rectifier: String,
+    filter: String,
+    dual_rails: bool,
+    target_volts: f64,
+    target_amps: f64,
+    volts_full_load: f64,
+    volts_no_load: f64,
+    ripple_pp_v: f64,
+    amps: f64,
+    power_w: f64,
+    va_per_dc_w: f64,
+    diode_drop_v: f64,
 }
 
 #[derive(Deserialize)]
@@ -114,6 +136,17 @@ struct Winding {
     sections: u32,
     traverse_mm: f64,
     section_amps: f64,
+    rms_amps: f64,
+    peak_amps: f64,
+    conduction_deg: Option<f64>,
+    va: f64,
+    output_w: f64,
+    power_factor: f64,
+    leakage_h: f64,
+    leakage_reactance_ohm: f64,
+    short_circuit_ohm: Option<f64>,
+    short_circuit_amps: Option<f64>,
+    dc: Option<Dc>,
     centre_tap: bool,
     bifilar: bool,
     turns_fixed: bool,

@@ -1,0 +1,433 @@
+//! The loads as they are drawn (DESIGN.md, "Loads as they are drawn"), inside the plan's rounds:
+//!
+//! - each rectified output is solved for its periodic steady state (`rectifier`) at its turns, with
+//!   its own hot resistance plus the primary's referred by (N_s/N_p)², its leakage referred to it,
+//!   and the EMF per turn less the drop the rest of the primary current makes; its turns are the
+//!   fewest whose full-load DC volts reach the target (a battery: whose mean charge current does);
+//! - an AC output's full-load volts are the phasor drop of its current at its power factor through
+//!   R + jX (`leakage::phasor_volts`), X = ω·L_leak referred to it;
+//! - the primary current is the RMS of the SUM of every referred winding current waveform, the
+//!   core-loss current (in phase with the volts) and the magnetising current (`magnetising`), on one
+//!   grid of 2·STEPS points over a cycle — not the sum of RMS values;
+//! - the short-circuit current of each output: its no-load EMF over √(R² + X²), R its own plus the
+//!   primary's referred (the primary at rated volts);
+//! - Specht's inrush estimate for the primary.
+
+use super::{Ctx, State};
+use crate::job::DcLoad;
+use crate::layout::{CoilLayout, Layout};
+use crate::leakage::{between_h, phasor_volts, Placed};
+use crate::magnetics::Waveform;
+use crate::magnetising::{current_wave, inrush, rms, Inrush, InrushInput};
+use crate::rectifier::{solve_circuit, Circuit, Filter, Rectifier, Solution, STEPS};
+use std::f64::consts::{PI, SQRT_2};
+
+/// Points per cycle of the waveforms the primary current is summed on.
+pub const GRID: usize = 2 * STEPS;
+
+/// The drive's volts waveform at GRID points from the rising zero crossing, scaled to RMS 1.
+pub fn volts_shape(wf: Waveform) -> Vec<f64> {
+    static SINE: std::sync::OnceLock<Vec<f64>> = std::sync::OnceLock::new();
+    if wf == Waveform::Sine {
+        return SINE.get_or_init(|| shape_of(wf)).clone();
+    }
+    shape_of(wf)
+}
+
+fn shape_of(wf: Waveform) -> Vec<f64> {
+    (0..GRID)
+        .map(|k| {
+            let th = 2.0 * PI * (k as f64 + 0.5) / GRID as f64;
+            match wf {
+                Waveform::Sine => SQRT_2 * th.sin(),
+                Waveform::Square => th.sin().signum(),
+                Waveform::QuasiSquare { duty } => {
+                    let t = th % PI;
+                    let on = (t - PI / 2.0).abs() <= PI / 2.0 * duty;
+                    if on {
+                        th.sin().signum() / duty.sqrt()
+                    } else {
+                        0.0
+                    }
+                }
+            }
+        })
+        .collect()
+}
+
+/// The peak of the volts waveform over its RMS.
+pub fn crest(wf: Waveform) -> f64 {
+    match wf {
+        Waveform::Sine => SQRT_2,
+        Waveform::Square => 1.0,
+        Waveform::QuasiSquare { duty } => 1.0 / duty.sqrt(),
+    }
+}
+
+fn placed(co: &CoilLayout) -> Placed {
+    Placed {
+        start_mm: co.start_mm,
+        build_mm: co.build_mm,
+        offset_mm: co.offset_mm,
+        traverse_mm: co.traverse_mm,
+        mean_turn_mm: co.mean_turn_mm,
+        section: co.section,
+    }
+}
+
+/// Legs the windings are shared over.
+fn legs(c: &Ctx) -> f64 {
+    match c.job.core.shape {
+        crate::geometry::Shape::Ui => 2.0,
+        crate::geometry::Shape::Ei => 1.0,
+    }
+}
+
+/// Leakage inductance per turn² of each winding against the primary, referred to it (the primary's
+/// against the first output), H. A half or section is taken with its turns over the whole
+/// winding's build.
+pub fn leakage_per_turn2(c: &Ctx, lay: &Layout) -> Vec<f64> {
+    let p = c.p_idx;
+    let other = (0..lay.coils.len()).find(|&i| i != p);
+    (0..lay.coils.len())
+        .map(|i| {
+            let j = if i == p { other } else { Some(p) };
+            match j {
+                Some(j) => between_h(&placed(&lay.coils[i]), &placed(&lay.coils[j]), 1.0, legs(c)),
+                None => 0.0,
+            }
+        })
+        .collect()
+}
+
+/// The winding's referred share of the primary's resistance per (turns/N_p)²: both halves of ±
+/// rails load the primary at once.
+fn primary_share(d: &DcLoad, centre_tap: bool) -> f64 {
+    if d.dual_rails(centre_tap) {
+        2.0
+    } else {
+        1.0
+    }
+}
+
+/// What a round knows that the rectifier circuits of output `i` need.
+pub struct Drop<'a> {
+    /// Hot resistance per turn of each winding, Ω.
+    pub per_turn: &'a [f64],
+    /// The primary's resistance as its current sees it, Ω.
+    pub r_p: f64,
+    /// Leakage per turn² of each winding, H.
+    pub leak: &'a [f64],
+    /// Volts per turn (RMS) at no load.
+    pub v_turn: f64,
+}
+
+/// The EMF per turn (RMS) output `i` sees at full load: the volts per turn less the drop the rest of
+/// the primary current (all but its own reflected current; its part in phase with the volts) makes
+/// in the primary.
+pub fn v_eff(c: &Ctx, st: &State, d: &Drop, i: usize) -> f64 {
+    let _ = c;
+    d.v_turn - d.r_p * st.rest[i] / st.n_p as f64
+}
+
+/// The rectifier circuit of output `i` at `n` turns (per half).
+pub fn circuit(c: &Ctx, st: &State, d: &Drop, i: usize, n: u32, v_eff: f64) -> Circuit {
+    let w = &c.job.windings[i];
+    let dc = w.dc.unwrap_or(DC_NONE);
+    let nf = n as f64;
+    let ratio = nf / st.n_p as f64;
+    let dual = dc.dual_rails(w.centre_tap);
+    Circuit {
+        rectifier: if dual {
+            Rectifier::CentreTap
+        } else {
+            dc.rectifier
+        },
+        filter: dc.filter,
+        waveform: c.job.waveform,
+        emf_peak_v: nf * v_eff.max(0.0) * crest(c.job.waveform),
+        frequency_hz: c.job.frequency_hz,
+        r_ohm: d.per_turn[i] * nf + d.r_p * ratio * ratio * primary_share(&dc, w.centre_tap),
+        l_h: d.leak[i] * nf * nf,
+        diode_v: dc.diode_drop_v,
+        capacitor_f: dc.capacitor_uf * 1e-6,
+        choke_h: dc.choke_h,
+        choke_ohm: dc.choke_ohm,
+        load_ohm: dc.dc_volts / dc.dc_amps.max(1e-12),
+        battery_v: dc.dc_volts,
+        battery_ohm: dc.battery_ohm,
+    }
+}
+
+/// A stand-in never used (every caller has checked `dc`).
+const DC_NONE: DcLoad = DcLoad {
+    rectifier: Rectifier::Bridge,
+    filter: Filter::Resistive,
+    dc_volts: 1.0,
+    dc_amps: 1.0,
+    capacitor_uf: 0.0,
+    choke_h: 0.0,
+    choke_ohm: 0.0,
+    battery_ohm: 0.02,
+    diode_drop_v: 0.9,
+};
+
+/// The figure a rectified output's turns are chosen on (DC volts; a battery's mean charge current)
+/// and its target.
+pub fn dc_figure(d: &DcLoad, s: &Solution) -> (f64, f64) {
+    match d.filter {
+        Filter::Battery => (s.dc_amps, d.dc_amps),
+        _ => (s.dc_volts, d.dc_volts),
+    }
+}
+
+/// RMS current of one half (or the whole winding) from a solution.
+pub fn half_rms(d: &DcLoad, centre_tap: bool, s: &Solution) -> f64 {
+    if d.dual_rails(centre_tap) {
+        // The solver's centre-tap share halves the square; each half of ± rails carries both
+        // rails' pulses.
+        s.rms_amps * SQRT_2
+    } else {
+        s.rms_amps
+    }
+}
+
+/// Solves every rectified output at its present turns: their RMS currents and waveforms.
+pub fn solve_rectified(c: &Ctx, st: &mut State, d: &Drop) {
+    for i in 0..c.job.windings.len() {
+        let w = &c.job.windings[i];
+        let Some(dc) = w.dc else { continue };
+        let v = v_eff(c, st, d, i);
+        let s = solve_circuit(&circuit(c, st, d, i, st.turns[i], v));
+        st.amps[i] = half_rms(&dc, w.centre_tap, &s);
+        st.rect[i] = Some(s);
+    }
+}
+
+/// The fewest turns of rectified output `i` that reach its target, and the most it reaches when
+/// none does (None when the target is reached).
+pub fn rectified_turns(c: &Ctx, st: &State, d: &Drop, i: usize) -> (u32, Option<f64>) {
+    let w = &c.job.windings[i];
+    let Some(dc) = w.dc else {
+        return (st.turns[i], None);
+    };
+    let v = v_eff(c, st, d, i);
+    let at = |n: u32| dc_figure(&dc, &solve_circuit(&circuit(c, st, d, i, n, v))).0;
+    let target = dc_figure(&dc, st.rect[i].as_ref().unwrap_or(&EMPTY)).1;
+    let mut n = st.turns[i].max(1);
+    let mut f = match &st.rect[i] {
+        Some(s) => dc_figure(&dc, s).0,
+        None => at(n),
+    };
+    if f >= target {
+        // Step down while one fewer still reaches it (a jump first when far above).
+        if f > 1.1 * target && n > 4 {
+            let guess = ((n as f64) * target / f).floor().max(1.0) as u32;
+            let fg = at(guess);
+            if fg >= target {
+                n = guess;
+                f = fg;
+            }
+        }
+        let _ = f;
+        let mut guard = 0;
+        while n > 1 && guard < 10_000 {
+            if at(n - 1) >= target {
+                n -= 1;
+            } else {
+                break;
+            }
+            guard += 1;
+        }
+        return (n, None);
+    }
+    // Step up while short; stop when more turns give less (the winding's resistance wins).
+    if f < 0.9 * target && f > 0.0 {
+        let guess = ((n as f64) * target / f).ceil().min(1e6) as u32;
+        let fg = at(guess.saturating_sub(1).max(n + 1));
+        if fg < target && fg > f {
+            n = guess.saturating_sub(1).max(n + 1);
+            f = fg;
+        }
+    }
+    let mut guard = 0;
+    while guard < 10_000 && n < crate::job::MAX_WINDING_TURNS {
+        let g = at(n + 1);
+        if g >= target {
+            return (n + 1, None);
+        }
+        if g <= f {
+            return (n, Some(f));
+        }
+        n += 1;
+        f = g;
+        guard += 1;
+    }
+    (n, Some(f))
+}
+
+/// An empty solution (for a target read before any solve).
+const EMPTY: Solution = Solution {
+    dc_volts: 0.0,
+    dc_amps: 0.0,
+    dc_volts_no_load: 0.0,
+    ripple_pp_v: 0.0,
+    rms_amps: 0.0,
+    peak_amps: 0.0,
+    conduction_deg: 0.0,
+    wave: Vec::new(),
+    iterations: 0,
+    converged: false,
+};
+
+/// An AC output's full-load volts at `n` turns: the phasor drop through its own resistance per turn
+/// `a`, the primary's share `b`·n², and X = ω·leak·n², at its power factor.
+pub fn ac_volts(c: &Ctx, i: usize, n: f64, v: f64, amps: f64, a: f64, b: f64, leak: f64) -> f64 {
+    let w = &c.job.windings[i];
+    let x = 2.0 * PI * c.job.frequency_hz * leak * n * n;
+    phasor_volts(n * v, amps, a * n + b * n * n, x, w.power_factor)
+}
+
+/// The fewest turns whose phasor full-load volts reach `target`, from a first guess.
+pub fn ac_turns(reach: &dyn Fn(u32) -> f64, target: f64, guess: u32) -> u32 {
+    let mut n = guess.max(1);
+    let mut guard = 0;
+    while reach(n) < target * (1.0 - 1e-12) && guard < 1000 && n < crate::job::MAX_WINDING_TURNS {
+        if reach(n + 1) <= reach(n) {
+            break;
+        }
+        n += 1;
+        guard += 1;
+    }
+    while n > 1 && reach(n - 1) >= target * (1.0 - 1e-12) && guard < 2000 {
+        n -= 1;
+        guard += 1;
+    }
+    n
+}
+
+/// The magnetising current waveform of the primary (A at GRID points): from the sweep when there is
+/// one (its current less the core-loss current, in quadrature), else from the steel's table.
+pub fn magnetising_wave(c: &Ctx, flux_t: f64, n_p: u32, core_amps: f64) -> Vec<f64> {
+    if let Some(s) = c.sweep {
+        let f = c.job.frequency_hz;
+        let idle = crate::probe::no_load_amps(s, f, c.g.area_net_mm2, flux_t, n_p);
+        let m = (idle * idle - core_amps * core_amps).max(0.0).sqrt();
+        return crate::magnetising::flux_shape(Waveform::Sine, GRID)
+            .into_iter()
+            .map(|b| b * m * SQRT_2)
+            .collect();
+    }
+    current_wave(
+        &c.job.steel.kind,
+        c.job.waveform,
+        flux_t,
+        c.g.path_length_mm,
+        n_p as f64,
+        GRID,
+    )
+}
+
+/// The primary current waveform: every output's current referred, the core-loss current and the
+/// magnetising current; its RMS; and for each output the part of the primary current, in phase
+/// with the volts, that is not its own (what drops the volts it sees).
+pub fn primary_wave(c: &Ctx, st: &State, core_w: f64, mag: &[f64]) -> (Vec<f64>, f64, Vec<f64>) {
+    let shape = volts_shape(c.job.waveform);
+    let in_phase = |w: &[f64]| -> f64 {
+        w.iter().zip(&shape).map(|(a, b)| a * b).sum::<f64>() / GRID as f64
+    };
+    let mut own = vec![0.0; c.job.windings.len()];
+    let core_amps = core_w / c.v_p_rms;
+    let mut sum: Vec<f64> = shape
+        .iter()
+        .zip(mag)
+        .map(|(s, m)| s * core_amps + m)
+        .collect();
+    for (i, w) in c.job.windings.iter().enumerate() {
+        if i == c.p_idx {
+            continue;
+        }
+        let ratio = st.turns[i] as f64 / st.n_p as f64;
+        match (&w.dc, &st.rect[i]) {
+            (Some(d), Some(s)) if s.wave.len() == GRID => {
+                let k = ratio * primary_share(d, w.centre_tap);
+                let mean = if d.rectifier == Rectifier::HalfWave {
+                    s.wave.iter().sum::<f64>() / GRID as f64
+                } else {
+                    0.0
+                };
+                let referred: Vec<f64> = s.wave.iter().map(|iw| k * (iw - mean)).collect();
+                own[i] = in_phase(&referred);
+                for (p, v) in sum.iter_mut().zip(&referred) {
+                    *p += v;
+                }
+            }
+            _ => {
+                // An AC load at its power factor (lagging): the volts' shape shifted by φ.
+                let phi = w.power_factor.clamp(0.0, 1.0).acos();
+                let shift = (phi / (2.0 * PI) * GRID as f64).round() as usize % GRID;
+                let amps = c.mult(i) * st.amps[i] * ratio;
+                for (k, p) in sum.iter_mut().enumerate() {
+                    *p += amps * shape[(k + GRID - shift) % GRID];
+                }
+                own[i] = amps * w.power_factor;
+            }
+        }
+    }
+    let r = rms(&sum);
+    let total = in_phase(&sum);
+    let rest = own.iter().map(|o| (total - o).max(0.0)).collect();
+    (sum, r, rest)
+}
+
+/// The short-circuit current of output `i` (per half or section) with the primary at rated volts,
+/// and its leakage reactance and short-circuit impedance, Ω.
+pub fn short_circuit(c: &Ctx, st: &State, d: &Drop, i: usize) -> (f64, f64, f64) {
+    let n = st.turns[i] as f64;
+    let ratio = n / st.n_p as f64;
+    let x = 2.0 * PI * c.job.frequency_hz * d.leak[i] * n * n;
+    let r = d.per_turn[i] * n + d.r_p * ratio * ratio;
+    let z = (r * r + x * x).sqrt();
+    let e = n * d.v_turn;
+    (if z > 0.0 { e / z } else { f64::INFINITY }, x, z)
+}
+
+/// Specht's inrush for the primary: the air-cored coil inside its mean turn.
+pub fn inrush_of(c: &Ctx, st: &State, co: &CoilLayout, r20_ohm: f64, flux_t: f64, mag_peak: f64) -> Inrush {
+    let (a, s) = (c.job.core.tongue_mm, c.job.core.stack_mm);
+    let legs = legs(c);
+    // Mean turn = 2(a + s) + 2πr for a rectangle with rounded corners of radius r around the tongue.
+    let r = ((co.mean_turn_mm - 2.0 * (a + s)) / (2.0 * PI)).max(0.0);
+    let area = a * s + 2.0 * r * (a + s) + PI * r * r;
+    let wf = c.job.waveform;
+    let volts_peak = match wf {
+        Waveform::Sine => SQRT_2 * c.v_p_rms,
+        _ => c.primary().volts,
+    };
+    inrush(&InrushInput {
+        volts_peak,
+        frequency_hz: c.job.frequency_hz,
+        // Two legs in series, each N/2 on its own coil: L = 2·μ0(N/2)²A/h = μ0·N²·A/(2h).
+        turns: st.n_p as f64 / legs.sqrt(),
+        coil_area_mm2: area,
+        traverse_mm: co.traverse_mm,
+        r_ohm: r20_ohm,
+        b_pk_t: flux_t,
+        b_r_t: c.job.steel.remanence_t,
+        rated_amps: st.primary_amps,
+        magnetising_peak_amps: mag_peak,
+    })
+}
+
+/// The magnetising current, the idle current (magnetising and core-loss currents together) and
+/// the magnetising peak, A.
+pub fn idle(c: &Ctx, core_w: f64, mag: &[f64]) -> (f64, f64, f64) {
+    let core_amps = core_w / c.v_p_rms;
+    let idle: Vec<f64> = volts_shape(c.job.waveform)
+        .iter()
+        .zip(mag)
+        .map(|(s, m)| s * core_amps + m)
+        .collect();
+    let peak = mag.iter().fold(0.0_f64, |m, v| m.max(v.abs()));
+    (rms(mag), rms(&idle), peak)
+}
