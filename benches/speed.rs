@@ -59,13 +59,48 @@ fn generated_shelf(n: usize, seed: u64) -> String {
     text
 }
 
+/// A job with two rectified outputs (a charger's battery and ± rails) on one core: the plan, and
+/// `rate`'s search against its scan.
+fn rectified() {
+    let text = include_str!("../tests/data/two_rectified.toml");
+    let job = parse_job(text, "two_rectified.toml", &|_| {
+        Err(ironwind::Error::Failed("no sweep".into()))
+    })
+    .expect("job");
+    let t = per_run(2_000, || {
+        std::hint::black_box(plan(std::hint::black_box(&job)));
+    });
+    println!("\ntwo rectified outputs (tests/data/two_rectified.toml)");
+    println!("  plan (library)               {:8.1} µs", t * 1e6);
+    let mut c = capacity(&job);
+    let ts = per_run(20, || c = capacity(&job));
+    let mut sc = scan(&job);
+    let tc = per_run(1, || sc = scan(&job));
+    println!(
+        "  rate search {:7.2} ms ({} plans), scan {:8.1} ms ({} plans): {:5.0}× faster; {:.1} vs {:.1} W ({:+.2} %)",
+        ts * 1e3,
+        c.plans_evaluated,
+        tc * 1e3,
+        sc.plans_evaluated,
+        tc / ts,
+        c.max_va,
+        sc.max_va,
+        (c.max_va / sc.max_va - 1.0) * 100.0
+    );
+}
+
 fn main() {
     let bin = root().join("target/release/ironwind");
     println!("ironwind speed figures\n");
 
+    if std::env::args().any(|a| a == "--rectified-only") {
+        rectified();
+        return;
+    }
     println!("plan (library, one full plan):");
     for name in [
         "garage_charger.toml",
+        "amplifier_rails_40v.toml",
         "cabin_inverter_24v.toml",
         "bench_supply_120v_ui.toml",
         "ups_donor_inverter.toml",
@@ -99,9 +134,12 @@ fn main() {
         println!("  (build with `cargo build --release` to time whole processes)");
     }
 
+    rectified();
+
     println!("\nrate: capacity search against the brute-force scan");
     for name in [
         "garage_charger.toml",
+        "amplifier_rails_40v.toml",
         "cabin_inverter_24v.toml",
         "bench_supply_120v_ui.toml",
         "ups_donor_inverter.toml",

@@ -197,10 +197,22 @@ fn job_at(job: &Job, base_amps: &[f64], base_va: f64, va: f64, js: &[f64]) -> Jo
     for ((w, a), &d) in j.windings.iter_mut().zip(base_amps).zip(js) {
         if w.role == Role::Secondary {
             w.amps = (a * s).max(1e-9);
+            // A rectified output: its DC current (a battery's charge current) scales with it.
+            if let (Some(d), Some(d0)) = (w.dc.as_mut(), base_dc(job, &w.name)) {
+                d.dc_amps = (d0 * s).max(1e-9);
+            }
         }
         w.current_density_a_mm2 = Some(d);
     }
     j
+}
+
+/// The base job's DC current of a rectified output, by name.
+fn base_dc(job: &Job, name: &str) -> Option<f64> {
+    job.windings
+        .iter()
+        .find(|w| w.name == name)
+        .and_then(|w| w.dc.map(|d| d.dc_amps))
 }
 
 /// The job as `rate` found it at capacity: the outputs at the capacity's VA and every winding at

@@ -4,7 +4,7 @@
 //! B(t) the drive's flux waveform (a cosine for sine drive, a triangle for square, a trapezoid for
 //! quasi-square), H(B) from `data/magnetisation.csv` for the steel's kind (IEC 60404-8-4 and -8-7
 //! minimum polarisations at their stated fields; lower points from memory, labelled so) interpolated
-//! linearly in B against log H, g the joints' equivalent air gap of a stacked core (two joints in the
+//! linearly between its points, g the joints' equivalent air gap of a stacked core (two joints in the
 //! path, 0.01 mm each for interleaved laminations: from memory). Above the table, the iron adds air's
 //! slope (μ0). With a sweep, the measured current at the planned flux replaces the table.
 //!
@@ -30,13 +30,16 @@ pub const JOINTS: f64 = 2.0;
 /// The inrush a soft start should hold to, × rated current (DESIGN.md).
 pub const INRUSH_LIMIT_MULTIPLE: f64 = 10.0;
 
-/// The table's points of one kind, (B, ln H), rising.
+/// Each kind's points, (B, H), rising.
+type Curves = Vec<(String, Vec<(f64, f64)>)>;
+
+/// The table's points of one kind, (B, H), rising.
 fn table(kind: &str) -> &'static [(f64, f64)] {
-    static CELL: OnceLock<Vec<(String, Vec<(f64, f64)>)>> = OnceLock::new();
+    static CELL: OnceLock<Curves> = OnceLock::new();
     let all = CELL.get_or_init(|| {
         let mut kinds: Vec<(String, Vec<(f64, f64)>)> = Vec::new();
         for r in crate::data::magnetisation() {
-            let pt = (r.b_t, r.h_a_per_m.ln());
+            let pt = (r.b_t, r.h_a_per_m);
             match kinds.iter_mut().find(|(k, _)| *k == r.kind) {
                 Some((_, v)) => v.push(pt),
                 None => kinds.push((r.kind.clone(), vec![pt])),
@@ -59,14 +62,18 @@ pub fn h_at(kind: &str, b_t: f64) -> f64 {
         return 0.0;
     };
     let h = if b <= first.0 {
-        first.1.exp() * b / first.0
+        first.1 * b / first.0
     } else if b >= last.0 {
-        last.1.exp() + (b - last.0) / MU0
+        last.1 + (b - last.0) / MU0
     } else {
-        let k = rows.iter().position(|r| r.0 >= b).unwrap_or(rows.len() - 1).max(1);
+        let k = rows
+            .iter()
+            .position(|r| r.0 >= b)
+            .unwrap_or(rows.len() - 1)
+            .max(1);
         let (lo, hi) = (rows[k - 1], rows[k]);
         let t = (b - lo.0) / (hi.0 - lo.0);
-        (lo.1 + t * (hi.1 - lo.1)).exp()
+        lo.1 + t * (hi.1 - lo.1)
     };
     h.copysign(b_t)
 }
@@ -75,6 +82,17 @@ pub fn h_at(kind: &str, b_t: f64) -> f64 {
 /// (the volts' rising zero crossing): −cos θ for sine; a ramp while the volts are on for square and
 /// quasi-square drive.
 pub fn flux_shape(waveform: Waveform, n: usize) -> Vec<f64> {
+    static SINE: OnceLock<(usize, Vec<f64>)> = OnceLock::new();
+    if waveform == Waveform::Sine {
+        let (m, v) = SINE.get_or_init(|| (n, shape_of(waveform, n)));
+        if *m == n {
+            return v.clone();
+        }
+    }
+    shape_of(waveform, n)
+}
+
+fn shape_of(waveform: Waveform, n: usize) -> Vec<f64> {
     (0..n)
         .map(|k| {
             let th = 2.0 * PI * (k as f64 + 0.5) / n as f64;

@@ -22,7 +22,7 @@
 //! of the winding current flipped, for the bridge and centre tap, which are half-wave symmetric),
 //! Jacobian by finite differences, to 1e-9 relative. The period map is integrated with the
 //! trapezoidal rule on each linear piece (switching instants located inside the step by linear
-//! interpolation), 360 steps per half cycle, the EMF taken as its exact mean over each step.
+//! interpolation), 180 steps per half cycle, the EMF taken as its exact mean over each step.
 //!
 //! Closed forms this reproduces in its limits (tests below): a resistive load on a bridge draws
 //! I_rms = I_dc·π/(2√2) (sine, 1.11 × I_dc), and VA/P_dc = 1.11 for the winding of a bridge with a
@@ -30,11 +30,12 @@
 //! Undeland & Robbins, Power Electronics, ch. 5).
 
 use crate::magnetics::Waveform;
+use std::borrow::Cow;
 use std::f64::consts::PI;
 use std::sync::OnceLock;
 
 /// Steps per half cycle.
-pub const STEPS: usize = 360;
+pub const STEPS: usize = 180;
 /// Default drop of one silicon diode, V (DESIGN.md; common practice).
 pub const DIODE_DROP_V: f64 = 0.9;
 /// Default internal resistance of a battery, Ω (DESIGN.md; common practice for a car-size battery).
@@ -152,6 +153,11 @@ pub struct Solution {
     pub wave: Vec<f64>,
     /// Newton iterations taken.
     pub iterations: u32,
+    /// The last Jacobian of the period map's residual (row-major), for a warm start.
+    pub jacobian: Vec<f64>,
+    /// The state at the start of the cycle (winding current, choke current, capacitor volts): a
+    /// warm start for a nearby circuit.
+    pub start: [f64; 3],
     /// Whether the start and end of a cycle agree to 1e-9 relative.
     pub converged: bool,
 }
@@ -195,10 +201,16 @@ fn sine_table() -> &'static (Vec<f64>, Vec<f64>) {
 
 impl Circuit {
     /// The unit EMF of the first half cycle: at step boundaries and as each step's mean.
-    fn half_wave_tables(&self) -> (Vec<f64>, Vec<f64>) {
+    fn half_wave_tables(&self) -> (Cow<'static, [f64]>, Cow<'static, [f64]>) {
         match self.waveform {
-            Waveform::Sine => sine_table().clone(),
-            Waveform::Square => (vec![1.0; STEPS + 1], vec![1.0; STEPS]),
+            Waveform::Sine => {
+                let (p, m) = sine_table();
+                (Cow::Borrowed(p.as_slice()), Cow::Borrowed(m.as_slice()))
+            }
+            Waveform::Square => (
+                Cow::Owned(vec![1.0; STEPS + 1]),
+                Cow::Owned(vec![1.0; STEPS]),
+            ),
             Waveform::QuasiSquare { duty } => {
                 let (a, b) = (PI / 2.0 * (1.0 - duty), PI / 2.0 * (1.0 + duty));
                 let h = PI / STEPS as f64;
@@ -218,7 +230,7 @@ impl Circuit {
                         (t1.min(b) - t0.max(a)).max(0.0) / h
                     })
                     .collect();
-                (points, means)
+                (Cow::Owned(points), Cow::Owned(means))
             }
         }
     }
@@ -271,6 +283,62 @@ struct Run<'a> {
     pts: &'a [f64],
     means: &'a [f64],
     h: f64,
+    /// The capacitor's decay over one whole step with no current, exp(−h/(R_L·C)).
+    decay_h: f64,
+    /// A conducting pair's trapezoid over one whole step.
+    on: Steady,
+}
+
+/// The trapezoid's coefficients for a conducting pair over one whole step (they do not depend on
+/// the state): for [i, v] with a capacitor, for i alone without.
+struct Steady {
+    cap: bool,
+    nvd: f64,
+    r: f64,
+    l_dt: f64,
+    c_dt: f64,
+    g_l: f64,
+    a11: f64,
+    a22: f64,
+    back: f64,
+    inv_det: f64,
+}
+
+impl Steady {
+    fn new(c: &Circuit, h: f64) -> Steady {
+        let (r, l0, _) = c.path(&State {
+            iw: 0.0,
+            ich: 0.0,
+            v: 0.0,
+        });
+        let l = l0.max(r * h / 2.0);
+        let cap = c.has_cap() && c.capacitor_f > 0.0;
+        let l_dt = l / h;
+        let a11 = l_dt + r / 2.0;
+        let c_dt = c.capacitor_f / h;
+        let g_l = 1.0 / c.load_ohm;
+        let a22 = c_dt + g_l / 2.0;
+        Steady {
+            cap,
+            nvd: c.rectifier.diodes() * c.diode_v,
+            r,
+            l_dt,
+            c_dt,
+            g_l,
+            a11,
+            a22,
+            back: if c.filter == Filter::Battery {
+                c.battery_v
+            } else {
+                0.0
+            },
+            inv_det: if cap {
+                1.0 / (a11 * a22 + 0.25)
+            } else {
+                1.0 / a11
+            },
+        }
+    }
 }
 
 impl Run<'_> {
@@ -332,15 +400,41 @@ impl Run<'_> {
         let rl = c.load_ohm;
         match m {
             Mode::Off => {
-                let v = if c.has_cap() && cap > 0.0 {
-                    x.v * (-dt / (rl * cap)).exp()
-                } else {
+                let v = if !(c.has_cap() && cap > 0.0) {
                     x.v
+                } else if dt == self.h {
+                    x.v * self.decay_h
+                } else {
+                    x.v * (-dt / (rl * cap)).exp()
                 };
                 State {
                     iw: 0.0,
                     ich: 0.0,
                     v,
+                }
+            }
+            Mode::On(s) if dt == self.h => {
+                // A whole step: the trapezoid's matrix inverted once per circuit (`Steady`).
+                let k = &self.on;
+                let i0 = x.iw.abs();
+                let drive = s * e - k.nvd;
+                let (i1, v1) = if k.cap {
+                    let b1 = k.l_dt * i0 - (k.r * i0 + x.v) / 2.0 + drive;
+                    let b2 = k.c_dt * x.v + (i0 - x.v * k.g_l) / 2.0;
+                    (
+                        (b1 * k.a22 - 0.5 * b2) * k.inv_det,
+                        (k.a11 * b2 + 0.5 * b1) * k.inv_det,
+                    )
+                } else {
+                    (
+                        ((k.l_dt - k.r / 2.0) * i0 + drive - k.back) * k.inv_det,
+                        x.v,
+                    )
+                };
+                State {
+                    iw: s * i1,
+                    ich: i1,
+                    v: v1,
                 }
             }
             Mode::On(s) => {
@@ -609,15 +703,23 @@ fn solve(mut a: Vec<Vec<f64>>, mut b: Vec<f64>) -> Option<Vec<f64>> {
     x.iter().all(|v| v.is_finite()).then_some(x)
 }
 
-/// Solves the circuit's periodic steady state. `guess`: a previous solution's start-of-cycle
-/// state (a warm start), if any.
+/// Solves the circuit's periodic steady state.
 pub fn solve_circuit(c: &Circuit) -> Solution {
+    solve_from(c, None)
+}
+
+/// Solves the circuit's periodic steady state from `warm`, a nearby circuit's solution (a warm
+/// start: Newton then needs a step or two), if any.
+pub fn solve_from(c: &Circuit, warm: Option<&Solution>) -> Solution {
     let (pts, means) = c.half_wave_tables();
+    let h = 1.0 / (2.0 * c.frequency_hz * STEPS as f64);
     let run = Run {
         c,
         pts: &pts,
         means: &means,
-        h: 1.0 / (2.0 * c.frequency_hz * STEPS as f64),
+        h,
+        decay_h: (-h / (c.load_ohm * c.capacitor_f)).exp(),
+        on: Steady::new(c, h),
     };
     let span = if c.symmetric() { STEPS } else { 2 * STEPS };
     // The period map: over the span; a symmetric rectifier's winding current flips sign.
@@ -641,14 +743,19 @@ pub fn solve_circuit(c: &Circuit) -> Solution {
         Filter::Choke => v0 / c.load_ohm,
         _ => 0.0,
     };
-    let mut p = pack(
-        c,
-        &State {
+    let start = match warm {
+        Some(w) if w.converged => State {
+            iw: w.start[0],
+            ich: w.start[1],
+            v: w.start[2],
+        },
+        _ => State {
             iw: -i0,
             ich: i0,
             v: v0,
         },
-    );
+    };
+    let mut p = pack(c, &start);
     let scale = |p: &[f64]| -> f64 {
         p.iter()
             .fold(0.0_f64, |m, v| m.max(v.abs()))
@@ -657,9 +764,17 @@ pub fn solve_circuit(c: &Circuit) -> Solution {
     };
     let mut converged = false;
     let mut iterations = 0;
+    let mut fp = map(&p);
+    let n = p.len();
+    // A warm start brings its Jacobian: chord steps with it while the residual falls fast; a fresh
+    // one by finite differences otherwise.
+    let mut kept_jac: Option<Vec<Vec<f64>>> = warm
+        .filter(|w| w.converged && w.jacobian.len() == n * n)
+        .map(|w| w.jacobian.chunks(n).map(|r| r.to_vec()).collect());
+    let mut last_norm = f64::INFINITY;
+    let mut jac_out: Vec<Vec<f64>> = Vec::new();
     for it in 0..40 {
         iterations = it + 1;
-        let fp = map(&p);
         let r: Vec<f64> = fp.iter().zip(&p).map(|(a, b)| a - b).collect();
         let sc = scale(&p);
         let norm = r.iter().fold(0.0_f64, |m, v| m.max(v.abs()));
@@ -667,8 +782,20 @@ pub fn solve_circuit(c: &Circuit) -> Solution {
             converged = true;
             break;
         }
+        if norm > 0.25 * last_norm {
+            kept_jac = None;
+        }
+        last_norm = norm;
+        if let Some(jac) = &kept_jac {
+            if let Some(dx) = solve(jac.clone(), r.iter().map(|v| -v).collect()) {
+                let q: Vec<f64> = p.iter().zip(&dx).map(|(a, b)| a + b).collect();
+                p = pack(c, &unpack(c, &q));
+                fp = map(&p);
+                jac_out = jac.clone();
+                continue;
+            }
+        }
         // Jacobian of the residual by finite differences.
-        let n = p.len();
         let mut jac = vec![vec![0.0; n]; n];
         for j in 0..n {
             let d = 1e-7 * p[j].abs().max(sc * 1e-3);
@@ -680,20 +807,23 @@ pub fn solve_circuit(c: &Circuit) -> Solution {
                 jac[i][j] = (rq - r[i]) / d;
             }
         }
+        jac_out = jac.clone();
+        kept_jac = Some(jac.clone());
         let step = solve(jac, r.iter().map(|v| -v).collect());
-        p = match step {
+        (p, fp) = match step {
             Some(dx) => {
                 // Backtrack while the residual grows.
                 let mut lambda = 1.0;
-                let mut best = p.clone();
+                let mut best = (p.clone(), fp.clone());
                 for _ in 0..6 {
                     let q: Vec<f64> = p.iter().zip(&dx).map(|(a, b)| a + lambda * b).collect();
                     let q = pack(c, &unpack(c, &q));
-                    let rq = map(&q)
+                    let fq = map(&q);
+                    let rq = fq
                         .iter()
                         .zip(&q)
                         .fold(0.0_f64, |m, (a, b)| m.max((a - b).abs()));
-                    best = q;
+                    best = (q, fq);
                     if rq < norm {
                         break;
                     }
@@ -702,10 +832,16 @@ pub fn solve_circuit(c: &Circuit) -> Solution {
                 best
             }
             // Singular: one cycle of plain stepping.
-            None => fp,
+            None => {
+                let next = fp.clone();
+                let f_next = map(&next);
+                (next, f_next)
+            }
         };
     }
-    report(c, &run, &unpack(c, &p), iterations, converged)
+    let mut sol = report(c, &run, &unpack(c, &p), iterations, converged);
+    sol.jacobian = jac_out.concat();
+    sol
 }
 
 /// The figures of the converged cycle.
@@ -716,7 +852,24 @@ fn report(c: &Circuit, run: &Run, x: &State, iterations: u32, converged: bool) -
         ..Tally::default()
     };
     let mut wave = Vec::with_capacity(2 * STEPS);
-    run.run(*x, 0, 2 * STEPS, Some(&mut t), Some(&mut wave));
+    let period = 1.0 / c.frequency_hz;
+    if c.symmetric() {
+        // The second half repeats the first with the winding current reversed.
+        run.run(*x, 0, STEPS, Some(&mut t), Some(&mut wave));
+        let first: Vec<f64> = wave.iter().map(|v| -v).collect();
+        wave.extend(first);
+        for v in [
+            &mut t.sq,
+            &mut t.abs,
+            &mut t.dc_load,
+            &mut t.load_v,
+            &mut t.on,
+        ] {
+            *v *= 2.0;
+        }
+    } else {
+        run.run(*x, 0, 2 * STEPS, Some(&mut t), Some(&mut wave));
+    }
     // The record holds each step's end; the waveform is taken at each step's middle (the mean of its
     // two ends), the grid every waveform of the plan shares.
     let first = wave.last().copied().unwrap_or(0.0);
@@ -726,7 +879,6 @@ fn report(c: &Circuit, run: &Run, x: &State, iterations: u32, converged: bool) -
         *v = (prev + end) / 2.0;
         prev = end;
     }
-    let period = 1.0 / c.frequency_hz;
     let pulses = if c.symmetric() { 2.0 } else { 1.0 };
     let half_share = if c.rectifier == Rectifier::CentreTap {
         0.5
@@ -758,6 +910,8 @@ fn report(c: &Circuit, run: &Run, x: &State, iterations: u32, converged: bool) -
         conduction_deg: (t.on / pulses / period * 360.0).min(360.0 / pulses),
         wave,
         iterations,
+        start: [x.iw, x.ich, x.v],
+        jacobian: Vec::new(),
         converged,
     }
 }

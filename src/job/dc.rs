@@ -265,7 +265,11 @@ pub(super) fn first_guess(d: &DcLoad, centre_tap: bool) -> (f64, f64) {
     let diodes = if dual { 1.0 } else { d.rectifier.diodes() };
     let dc = d.dc_volts + diodes * d.diode_drop_v;
     let full_wave = d.rectifier != Rectifier::HalfWave;
-    let avg_to_rms = if full_wave { PI / (2.0 * SQRT_2) } else { PI / SQRT_2 };
+    let avg_to_rms = if full_wave {
+        PI / (2.0 * SQRT_2)
+    } else {
+        PI / SQRT_2
+    };
     let volts = match d.filter {
         Filter::Capacitor => 1.1 * dc / SQRT_2,
         Filter::Battery => 1.15 * dc / SQRT_2,

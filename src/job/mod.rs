@@ -16,8 +16,8 @@ use crate::units::LengthInput;
 use crate::wire::{Grade, System, WireRequest, CMIL_PER_A_AT_1_A_MM2};
 use serde::Deserialize;
 
-pub mod starter;
 mod dc;
+pub mod starter;
 mod winding;
 
 /// Largest job file read, bytes (a job is a few hundred bytes; this refuses a wrong file early).

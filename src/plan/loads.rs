@@ -19,7 +19,7 @@ use crate::layout::{CoilLayout, Layout};
 use crate::leakage::{between_h, phasor_volts, Placed};
 use crate::magnetics::Waveform;
 use crate::magnetising::{current_wave, inrush, rms, Inrush, InrushInput};
-use crate::rectifier::{solve_circuit, Circuit, Filter, Rectifier, Solution, STEPS};
+use crate::rectifier::{solve_from, Circuit, Filter, Rectifier, Solution, STEPS};
 use std::f64::consts::{PI, SQRT_2};
 
 /// Points per cycle of the waveforms the primary current is summed on.
@@ -198,7 +198,7 @@ pub fn solve_rectified(c: &Ctx, st: &mut State, d: &Drop) {
         let w = &c.job.windings[i];
         let Some(dc) = w.dc else { continue };
         let v = v_eff(c, st, d, i);
-        let s = solve_circuit(&circuit(c, st, d, i, st.turns[i], v));
+        let s = solve_from(&circuit(c, st, d, i, st.turns[i], v), st.rect[i].as_ref());
         st.amps[i] = half_rms(&dc, w.centre_tap, &s);
         st.rect[i] = Some(s);
     }
@@ -212,7 +212,8 @@ pub fn rectified_turns(c: &Ctx, st: &State, d: &Drop, i: usize) -> (u32, Option<
         return (st.turns[i], None);
     };
     let v = v_eff(c, st, d, i);
-    let at = |n: u32| dc_figure(&dc, &solve_circuit(&circuit(c, st, d, i, n, v))).0;
+    let warm = st.rect[i].as_ref();
+    let at = |n: u32| dc_figure(&dc, &solve_from(&circuit(c, st, d, i, n, v), warm)).0;
     let target = dc_figure(&dc, st.rect[i].as_ref().unwrap_or(&EMPTY)).1;
     let mut n = st.turns[i].max(1);
     let mut f = match &st.rect[i] {
@@ -220,8 +221,9 @@ pub fn rectified_turns(c: &Ctx, st: &State, d: &Drop, i: usize) -> (u32, Option<
         None => at(n),
     };
     if f >= target {
-        // Step down while one fewer still reaches it (a jump first when far above).
-        if f > 1.1 * target && n > 4 {
+        // Step down while one fewer still reaches it (a jump first when far above; not for a
+        // battery, whose current is far from proportional to the turns).
+        if f > 1.1 * target && n > 4 && dc.filter != Filter::Battery {
             let guess = ((n as f64) * target / f).floor().max(1.0) as u32;
             let fg = at(guess);
             if fg >= target {
@@ -242,7 +244,7 @@ pub fn rectified_turns(c: &Ctx, st: &State, d: &Drop, i: usize) -> (u32, Option<
         return (n, None);
     }
     // Step up while short; stop when more turns give less (the winding's resistance wins).
-    if f < 0.9 * target && f > 0.0 {
+    if f < 0.9 * target && f > 0.0 && dc.filter != Filter::Battery {
         let guess = ((n as f64) * target / f).ceil().min(1e6) as u32;
         let fg = at(guess.saturating_sub(1).max(n + 1));
         if fg < target && fg > f {
@@ -277,12 +279,15 @@ const EMPTY: Solution = Solution {
     conduction_deg: 0.0,
     wave: Vec::new(),
     iterations: 0,
+    start: [0.0; 3],
+    jacobian: Vec::new(),
     converged: false,
 };
 
 /// An AC output's full-load volts at `n` turns: the phasor drop through its own resistance per turn
-/// `a`, the primary's share `b`·n², and X = ω·leak·n², at its power factor.
-pub fn ac_volts(c: &Ctx, i: usize, n: f64, v: f64, amps: f64, a: f64, b: f64, leak: f64) -> f64 {
+/// `a` and the primary's share `b`·n² (`ab` = (a, b)), and X = ω·leak·n², at its power factor.
+pub fn ac_volts(c: &Ctx, i: usize, n: f64, v: f64, amps: f64, ab: (f64, f64), leak: f64) -> f64 {
+    let (a, b) = ab;
     let w = &c.job.windings[i];
     let x = 2.0 * PI * c.job.frequency_hz * leak * n * n;
     phasor_volts(n * v, amps, a * n + b * n * n, x, w.power_factor)
@@ -333,9 +338,8 @@ pub fn magnetising_wave(c: &Ctx, flux_t: f64, n_p: u32, core_amps: f64) -> Vec<f
 /// with the volts, that is not its own (what drops the volts it sees).
 pub fn primary_wave(c: &Ctx, st: &State, core_w: f64, mag: &[f64]) -> (Vec<f64>, f64, Vec<f64>) {
     let shape = volts_shape(c.job.waveform);
-    let in_phase = |w: &[f64]| -> f64 {
-        w.iter().zip(&shape).map(|(a, b)| a * b).sum::<f64>() / GRID as f64
-    };
+    let in_phase =
+        |w: &[f64]| -> f64 { w.iter().zip(&shape).map(|(a, b)| a * b).sum::<f64>() / GRID as f64 };
     let mut own = vec![0.0; c.job.windings.len()];
     let core_amps = core_w / c.v_p_rms;
     let mut sum: Vec<f64> = shape
@@ -393,7 +397,14 @@ pub fn short_circuit(c: &Ctx, st: &State, d: &Drop, i: usize) -> (f64, f64, f64)
 }
 
 /// Specht's inrush for the primary: the air-cored coil inside its mean turn.
-pub fn inrush_of(c: &Ctx, st: &State, co: &CoilLayout, r20_ohm: f64, flux_t: f64, mag_peak: f64) -> Inrush {
+pub fn inrush_of(
+    c: &Ctx,
+    st: &State,
+    co: &CoilLayout,
+    r20_ohm: f64,
+    flux_t: f64,
+    mag_peak: f64,
+) -> Inrush {
     let (a, s) = (c.job.core.tongue_mm, c.job.core.stack_mm);
     let legs = legs(c);
     // Mean turn = 2(a + s) + 2πr for a rectangle with rounded corners of radius r around the tongue.

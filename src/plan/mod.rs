@@ -802,7 +802,7 @@ fn next_turns(c: &Ctx, st: &State, r: &Round) -> (Vec<u32>, u32, Vec<Option<f64>
         // The primary current less this output's own reflected current: the drop it causes in the
         // primary acts on this output like a lower volts per turn.
         let v = v_turn - r_p * rest_of_primary(st, i) / st.n_p as f64;
-        let reach = |n: u32| loads::ac_volts(c, i, n as f64, v, amps, a, b, r.leak[i]);
+        let reach = |n: u32| loads::ac_volts(c, i, n as f64, v, amps, (a, b), r.leak[i]);
         let lin = v - amps * a;
         max_fl[i] = Some(if b > 0.0 && amps > 0.0 {
             reach((lin / (2.0 * amps * b)).round().clamp(1.0, 1e7) as u32)
@@ -885,8 +885,10 @@ fn settle(c: &Ctx, st: &mut State) -> Round {
         let i_p = next.primary_amps;
         most_amps = most_amps.max(i_p);
         let key = (next.turns.clone(), (i_p * 1e6).round() as u64);
+        // Settled when the turns repeat and the current moves less than a millionth (the final
+        // polish of the current, with these wires, is `settle_current`'s).
         let settled =
-            next.turns == st.turns && (i_p - st.primary_amps).abs() <= 1e-9 * i_p.max(1e-9);
+            next.turns == st.turns && (i_p - st.primary_amps).abs() <= 1e-6 * i_p.max(1e-9);
         let repeat = seen.contains(&key);
         st.primary_amps = i_p;
         if settled || final_pass {
@@ -924,7 +926,7 @@ fn settle_current(c: &Ctx, st: &mut State, mut round: Round) -> Round {
         round.primary_ok = ok;
         let moved = (i_p - st.primary_amps).abs();
         st.primary_amps = i_p;
-        if moved <= 1e-12 * i_p.max(1e-12) {
+        if moved <= 1e-9 * i_p.max(1e-12) {
             break;
         }
     }
@@ -998,7 +1000,7 @@ fn winding_plan(c: &Ctx, st: &State, r: &Round, i: usize) -> WindingPlan {
     } else {
         let b = k * r_p / (st.n_p as f64 * st.n_p as f64);
         let v = r.v_turn - r_p * rest_of_primary(st, i) / st.n_p as f64;
-        let fl = loads::ac_volts(c, i, nf, v, amps, res / nf.max(1.0), b, r.leak[i]);
+        let fl = loads::ac_volts(c, i, nf, v, amps, (res / nf.max(1.0), b), r.leak[i]);
         (nf * r.v_turn, fl)
     };
     let dc = dc_plan(c, st, i, v_fl);
@@ -1033,13 +1035,18 @@ fn winding_plan(c: &Ctx, st: &State, r: &Round, i: usize) -> WindingPlan {
         short_circuit_ohm: (!primary).then_some(z_ohm),
         short_circuit_amps: (!primary).then_some(sc_amps),
         peak_amps: peak,
-        va: if primary { c.v_p_rms * amps } else { k * v_fl.max(0.0) * section_amps },
+        va: if primary {
+            c.v_p_rms * amps
+        } else {
+            k * v_fl.max(0.0) * section_amps
+        },
         dc,
         name: w.name.clone(),
         role: w.role,
         kept: w.kept,
         resistance_measured: w.resistance_ohm.is_some(),
-        volts: w.volts,
+        // A rectified output's AC volts are the plan's: its open-circuit RMS.
+        volts: if w.dc.is_some() { v_nl } else { w.volts },
         volts_given: w.volts_given,
         amps,
         section_amps,

@@ -213,7 +213,34 @@ fn volts_amps(p: &Plan, w: &WindingPlan) -> String {
     } else {
         "V RMS"
     };
-    format!("{} {unit}, {} A", num(w.volts, 2), sig3(w.amps))
+    match &w.dc {
+        Some(d) => format!(
+            "{}{} V DC, {} A ({}); winding {} V RMS, {} A RMS",
+            if d.dual_rails { "± " } else { "" },
+            num(d.volts_full_load, 2),
+            sig3(d.amps),
+            words::dc_load(d),
+            num(w.volts, 2),
+            sig3(w.amps)
+        ),
+        None => format!("{} {unit}, {} A", num(w.volts, 2), sig3(w.amps)),
+    }
+}
+
+/// What the loads add to the bench checks: the idle current, the inrush, and a welder's
+/// short-circuit current.
+fn load_lines(p: &Plan) -> Vec<String> {
+    let mut v = vec![format!(
+        "idle primary current: about {} A RMS (predicted); switch-on inrush: {}",
+        sig3(p.drive.idle_amps),
+        words::inrush(&p.drive.inrush)
+    )];
+    for w in p.windings.iter().filter(|w| words::is_welder(w)) {
+        if let Some(a) = w.short_circuit_amps.filter(|a| a.is_finite()) {
+            v.push(words::short_circuit_headline(&w.name, a));
+        }
+    }
+    v
 }
 
 fn half_coil_note(p: &Plan, w: &WindingPlan) -> Option<String> {
@@ -352,12 +379,7 @@ fn bench_lines(p: &Plan) -> Vec<String> {
             num(w.volts_no_load, 1)
         ));
     }
-    if let Some(i0) = p.drive.no_load_amps {
-        v.push(format!(
-            "idle (no-load) primary current: about {} A RMS (from the sweep)",
-            sig3(i0)
-        ));
-    }
+    v.extend(load_lines(p));
     v.push(
         "After winding, measure these: the primary's volts, each output's no-load volts, each winding's ohms and the room temperature; write them in a measurement file (examples/measured/) and run `ironwind diagnose` to learn what went wrong, if anything."
             .to_string(),
@@ -541,13 +563,14 @@ fn text_winding(
     bold: &dyn Fn(&str) -> String,
 ) -> String {
     let width = look.width;
-    let mut s = bold(&format!(
+    let head = format!(
         "[{}] {} \"{}\"  {}",
         k + 1,
         role_word(w),
         w.name,
         volts_amps(p, w)
-    ));
+    );
+    let mut s = bold(wrap(&head, width, "", "    ").trim_end());
     s += "\n";
     if !p.verdict.ok {
         s += "    NOT TO BE WOUND: the design does not pass\n";
@@ -1257,6 +1280,9 @@ fn html_cut_and_checks(p: &Plan, o: &CardOptions) -> String {
     }
     for l in power_up_lines(p) {
         let _ = write!(s, "<li>{}</li>", esc(l));
+    }
+    for l in load_lines(p) {
+        s += &format!("<li>{}</li>", esc(&l));
     }
     s += "<li>After winding: the primary's volts, each output's no-load volts, each winding's ohms and the room temperature into a measurement file, then <code>ironwind diagnose</code>.</li>";
     s += "</ul></div></div>";

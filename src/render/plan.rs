@@ -33,10 +33,12 @@ pub fn write_demo_intro(out: &mut dyn Write, look: &Look) -> std::io::Result<()>
 /// The plan as one string.
 pub fn plan_text(plan: &Plan, look: Look) -> String {
     let mut s = format!("ironwind plan: {}\n\n", plan.name);
+    s += &headline(plan, look);
     s += &core_section(plan, look);
     s += &drive_section(plan, look);
     s += &windings_section(plan, look);
     s += &electrical_section(plan, look);
+    s += &loads_section(plan, look);
     s += &window_section(plan, look);
     s += &warnings_and_verdict(plan, look);
     s
@@ -154,6 +156,23 @@ fn drive_section(plan: &Plan, look: Look) -> String {
     if let Some(r) = d.flux_vs_donor {
         drive.push(("flux vs donor", format!("× {}", num(r, 3))));
     }
+    drive.push((
+        "magnetising current",
+        format!(
+            "{} A RMS ({})",
+            sig3(d.magnetising_amps),
+            if d.no_load_amps.is_some() {
+                "from the sweep"
+            } else {
+                "estimate from the steel's magnetisation table and the joints"
+            }
+        ),
+    ));
+    drive.push((
+        "idle current",
+        format!("{} A RMS (predicted)", sig3(d.idle_amps)),
+    ));
+    drive.push(("switch-on inrush", words::inrush(&d.inrush)));
     s += "\nDrive\n";
     s += &pairs(&drive, look);
     if let Some(n) = &d.kept_output_note {
@@ -298,6 +317,101 @@ fn electrical_section(plan: &Plan, look: Look) -> String {
             .collect();
         s += &format!("taps on \"{}\": {}\n", w.name, list.join(", "));
     }
+    s
+}
+
+/// The figure a welder's user wants first: each intermittent AC output's short-circuit current.
+fn headline(plan: &Plan, look: Look) -> String {
+    let mut s = String::new();
+    for w in plan.windings.iter().filter(|w| words::is_welder(w)) {
+        if let Some(a) = w.short_circuit_amps.filter(|a| a.is_finite()) {
+            s += &super::wrap(
+                &words::short_circuit_headline(&w.name, a),
+                look.width,
+                "",
+                "  ",
+            );
+        }
+    }
+    if !s.is_empty() {
+        s.push('\n');
+    }
+    s
+}
+
+/// Rectified outputs (DC figures and the winding's waveform) and every output's leakage and
+/// short-circuit current.
+fn loads_section(plan: &Plan, look: Look) -> String {
+    let mut s = String::new();
+    let outputs: Vec<_> = plan
+        .windings
+        .iter()
+        .filter(|w| w.role == crate::job::Role::Secondary)
+        .collect();
+    if outputs.iter().any(|w| w.dc.is_some()) {
+        s += "\nRectified outputs (periodic steady state)\n";
+        let mut rows = vec![vec![
+            "winding".to_string(),
+            "load".into(),
+            "DC V full / no load".into(),
+            "DC A".into(),
+            "ripple V p-p".into(),
+            "A RMS".into(),
+            "A peak".into(),
+            "conduction °".into(),
+            "VA / P_dc".into(),
+        ]];
+        for w in &outputs {
+            let Some(d) = &w.dc else { continue };
+            rows.push(vec![
+                w.name.clone(),
+                words::dc_load(d),
+                format!(
+                    "{}{} / {}",
+                    if d.dual_rails { "± " } else { "" },
+                    num(d.volts_full_load, 2),
+                    num(d.volts_no_load, 2)
+                ),
+                sig3(d.amps),
+                num(d.ripple_pp_v, 2),
+                sig3(d.rms_amps),
+                sig3(d.peak_amps),
+                num(d.conduction_deg, 0),
+                num(d.va_per_dc_w, 2),
+            ]);
+        }
+        s += &table(rows, 1, look);
+    }
+    if outputs.is_empty() {
+        return s;
+    }
+    s += "\nLeakage and short circuit (primary at rated volts)\n";
+    let mut rows = vec![vec![
+        "winding".to_string(),
+        "leakage mH".into(),
+        "X Ω".into(),
+        "Z Ω".into(),
+        "short-circuit A".into(),
+        "power factor".into(),
+    ]];
+    for w in &outputs {
+        rows.push(vec![
+            w.name.clone(),
+            sig3(w.leakage_h * 1e3),
+            sig3(w.leakage_reactance_ohm),
+            w.short_circuit_ohm.map(sig3).unwrap_or_else(|| "-".into()),
+            w.short_circuit_amps
+                .filter(|a| a.is_finite())
+                .map(sig3)
+                .unwrap_or_else(|| "-".into()),
+            if w.dc.is_some() {
+                "-".into()
+            } else {
+                num(w.power_factor, 2)
+            },
+        ]);
+    }
+    s += &table(rows, 1, look);
     s
 }
 

@@ -344,3 +344,61 @@ pub fn adiabatic_note(w: &crate::plan::WindingPlan) -> String {
         w.current_density_a_mm2
     )
 }
+
+/// Whether an output is a welder's (intermittent and AC): its short-circuit current leads its plan.
+pub fn is_welder(w: &crate::plan::WindingPlan) -> bool {
+    w.role == crate::job::Role::Secondary
+        && w.dc.is_none()
+        && (w.load_duty < 1.0 || w.adiabatic_rise_c.is_some())
+}
+
+/// The welder's headline.
+pub fn short_circuit_headline(name: &str, amps: f64) -> String {
+    format!(
+        "Short-circuit current of \"{name}\": {} A with the primary at rated volts (the leakage reactance sets a welder's current; it also sizes the supply's fuse, by the supply's code).",
+        super::sig3(amps)
+    )
+}
+
+/// A rectified output's load in words: rectifier, filter and its part.
+pub fn dc_load(d: &crate::plan::DcPlan) -> String {
+    use crate::rectifier::Filter;
+    let l = &d.load;
+    let filter = match l.filter {
+        Filter::Capacitor => format!("{} µF", super::num(l.capacitor_uf, 0)),
+        Filter::Choke => format!(
+            "choke {} H, {} µF",
+            super::sig3(l.choke_h),
+            super::num(l.capacitor_uf, 0)
+        ),
+        Filter::Battery => format!(
+            "battery {} V, {} Ω",
+            super::num(l.dc_volts, 1),
+            super::sig3(l.battery_ohm)
+        ),
+        Filter::Resistive => "resistor".to_string(),
+    };
+    format!(
+        "{}{}, {}",
+        l.rectifier.name(),
+        if d.dual_rails { " (± rails)" } else { "" },
+        filter
+    )
+}
+
+/// The inrush estimate in words.
+pub fn inrush(i: &crate::magnetising::Inrush) -> String {
+    let soft = if i.soft_start_ohm > 0.0 {
+        format!(
+            "; a series {} ohm at switch-on holds it to 10 × rated",
+            super::sig3(i.soft_start_ohm)
+        )
+    } else {
+        "; within 10 × rated with no soft start".to_string()
+    };
+    format!(
+        "{} A peak, {} × rated (Specht's estimate, first half cycle from remanence){soft}; fuse by the supply's code",
+        super::sig3(i.peak_amps),
+        super::num(i.multiple_of_rated, 1)
+    )
+}

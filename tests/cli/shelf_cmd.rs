@@ -375,16 +375,16 @@ fn rank_agrees_with_planning_each_core() {
     for item in ranked {
         let (label, t, st, w) = cores.iter().find(|c| c.0 == item["label"]).expect("core");
         let (ww, wh) = w.split_once('x').expect("window");
-        let e = crate::common::edited(&text, "tongue_mm = 35.0", &format!("tongue_mm = {t}"));
-        let e = crate::common::edited(&e, "stack_mm = 45.0", &format!("stack_mm = {st}"));
+        let e = crate::common::edited(&text, "tongue_mm = 38.0", &format!("tongue_mm = {t}"));
+        let e = crate::common::edited(&e, "stack_mm = 50.0", &format!("stack_mm = {st}"));
         let e = crate::common::edited(
             &e,
-            "window_width_mm = 17.5",
+            "window_width_mm = 19.0",
             &format!("window_width_mm = {ww}"),
         );
         let edited = crate::common::edited(
             &e,
-            "window_height_mm = 52.5",
+            "window_height_mm = 57.0",
             &format!("window_height_mm = {wh}"),
         );
         let p = write(&d, &format!("{label}.toml"), &edited);
