@@ -46,6 +46,11 @@ pub enum RateNote {
     },
     /// The area-product and rule-of-thumb figures are quick estimates.
     QuickEstimates,
+    /// Rectified outputs count by their DC watts; their windings carry more VA.
+    RectifiedOutputs {
+        /// The largest winding VA over DC watts among them, at the job's load.
+        va_per_dc_w: f64,
+    },
 }
 
 /// Capacity against flux density: (flux T, capacity VA, total loss at capacity W).
@@ -106,6 +111,15 @@ pub fn rate(job: &Job, req: &RateRequest) -> Rating {
         notes.push(RateNote::IntermittentDuty { duty: req.duty });
     }
     notes.push(RateNote::QuickEstimates);
+    if job.windings.iter().any(|w| w.dc.is_some()) {
+        let p = crate::plan::plan(&job);
+        let ratio = p
+            .windings
+            .iter()
+            .filter_map(|w| w.dc.as_ref().map(|d| d.va_per_dc_w))
+            .fold(0.0, f64::max);
+        notes.push(RateNote::RectifiedOutputs { va_per_dc_w: ratio });
+    }
     let curve = req.curve.then(|| {
         let (lo, hi) = usable_flux_range(&job.steel.kind);
         FluxCurve {

@@ -263,6 +263,10 @@ pub fn rate_note(n: &RateNote) -> String {
             "intermittent duty {duty}: heating is rated on the time-averaged copper loss; this assumes each load period is short against the core's thermal time constant (minutes to tens of minutes)"
         ),
         RateNote::QuickEstimates => "the area-product and rule-of-thumb figures are quick estimates; the capacity comes from full plans with losses and heating".to_string(),
+        RateNote::RectifiedOutputs { va_per_dc_w } => format!(
+            "a rectified output counts by its DC watts; its winding carries up to {} × that in VA (its pulsed current heats the copper as the plan's rectifier solution shows)",
+            super::num(*va_per_dc_w, 2)
+        ),
     }
 }
 
