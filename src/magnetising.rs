@@ -82,14 +82,22 @@ pub fn h_at(kind: &str, b_t: f64) -> f64 {
 /// (the volts' rising zero crossing): −cos θ for sine; a ramp while the volts are on for square and
 /// quasi-square drive.
 pub fn flux_shape(waveform: Waveform, n: usize) -> Vec<f64> {
-    static SINE: OnceLock<(usize, Vec<f64>)> = OnceLock::new();
-    if waveform == Waveform::Sine {
-        let (m, v) = SINE.get_or_init(|| (n, shape_of(waveform, n)));
-        if *m == n {
-            return v.clone();
-        }
+    thread_local! {
+        /// The last shape asked for (a plan asks for one many times).
+        static LAST: std::cell::RefCell<Option<(Waveform, usize, Vec<f64>)>> =
+            const { std::cell::RefCell::new(None) };
     }
-    shape_of(waveform, n)
+    LAST.with(|cell| {
+        let mut last = cell.borrow_mut();
+        match last.as_ref() {
+            Some((w, m, v)) if *w == waveform && *m == n => v.clone(),
+            _ => {
+                let v = shape_of(waveform, n);
+                *last = Some((waveform, n, v.clone()));
+                v
+            }
+        }
+    })
 }
 
 fn shape_of(waveform: Waveform, n: usize) -> Vec<f64> {

@@ -143,6 +143,12 @@ fn check_finite(v: &serde_json::Value, path: &str) {
         "max_volts_full_load",
         // The primary's, and an output's that delivers nothing at full load (its check fails).
         "regulation_pct",
+        // A rectified output's figures (null on AC windings) and an output's short circuit (null
+        // on the primary).
+        "conduction_deg",
+        "dc",
+        "short_circuit_ohm",
+        "short_circuit_amps",
     ];
     match v {
         serde_json::Value::Null => {

@@ -11,6 +11,10 @@ const EXAMPLES: &[(&str, &str)] = &[
         include_str!("../../examples/garage_charger.toml"),
     ),
     (
+        "amplifier_rails_40v",
+        include_str!("../../examples/amplifier_rails_40v.toml"),
+    ),
+    (
         "cabin_inverter_24v",
         include_str!("../../examples/cabin_inverter_24v.toml"),
     ),

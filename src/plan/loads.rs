@@ -27,11 +27,22 @@ pub const GRID: usize = 2 * STEPS;
 
 /// The drive's volts waveform at GRID points from the rising zero crossing, scaled to RMS 1.
 pub fn volts_shape(wf: Waveform) -> Vec<f64> {
-    static SINE: std::sync::OnceLock<Vec<f64>> = std::sync::OnceLock::new();
-    if wf == Waveform::Sine {
-        return SINE.get_or_init(|| shape_of(wf)).clone();
+    thread_local! {
+        /// The last waveform's shape (a plan asks for one waveform many times).
+        static LAST: std::cell::RefCell<Option<(Waveform, Vec<f64>)>> =
+            const { std::cell::RefCell::new(None) };
     }
-    shape_of(wf)
+    LAST.with(|cell| {
+        let mut last = cell.borrow_mut();
+        match last.as_ref() {
+            Some((w, v)) if *w == wf => v.clone(),
+            _ => {
+                let v = shape_of(wf);
+                *last = Some((wf, v.clone()));
+                v
+            }
+        }
+    })
 }
 
 fn shape_of(wf: Waveform) -> Vec<f64> {
@@ -382,6 +393,55 @@ pub fn primary_wave(c: &Ctx, st: &State, core_w: f64, mag: &[f64]) -> (Vec<f64>,
     let total = in_phase(&sum);
     let rest = own.iter().map(|o| (total - o).max(0.0)).collect();
     (sum, r, rest)
+}
+
+/// The primary current's RMS and each output's rest, without building the waveform when the
+/// loads allow (`in_phase_loads`).
+pub fn primary_rms(c: &Ctx, st: &State, core_w: f64, mag: &[f64]) -> (f64, Vec<f64>) {
+    let (_, rms, rest) =
+        in_phase_loads(c, st, core_w, mag).unwrap_or_else(|| primary_wave(c, st, core_w, mag));
+    (rms, rest)
+}
+
+/// The same for a job whose outputs all draw in phase with the volts (AC, unity power factor): the
+/// sum is A·shape + magnetising, A the in-phase amps, so its mean square is A² + 2A·⟨shape, mag⟩ +
+/// ⟨mag²⟩ with no waveform to build (the waveform itself is left empty). None otherwise.
+fn in_phase_loads(
+    c: &Ctx,
+    st: &State,
+    core_w: f64,
+    mag: &[f64],
+) -> Option<(Vec<f64>, f64, Vec<f64>)> {
+    let outputs = || {
+        c.job
+            .windings
+            .iter()
+            .enumerate()
+            .filter(|(i, _)| *i != c.p_idx)
+    };
+    if outputs().any(|(_, w)| w.dc.is_some() || w.power_factor < 1.0) {
+        return None;
+    }
+    let (m_in, m_sq) = magnetising_stats(c.job.waveform, mag);
+    let mut own = vec![0.0; c.job.windings.len()];
+    let mut a = core_w / c.v_p_rms;
+    for (i, _) in outputs() {
+        own[i] = c.mult(i) * st.amps[i] * st.turns[i] as f64 / st.n_p as f64;
+        a += own[i];
+    }
+    let total_in_phase = a + m_in;
+    let rms = (a * a + 2.0 * a * m_in + m_sq).max(0.0).sqrt();
+    let rest = own.iter().map(|o| (total_in_phase - o).max(0.0)).collect();
+    Some((Vec::new(), rms, rest))
+}
+
+/// The magnetising wave's part in phase with the volts and its mean square.
+fn magnetising_stats(wf: Waveform, mag: &[f64]) -> (f64, f64) {
+    let shape = volts_shape(wf);
+    let n = mag.len().max(1) as f64;
+    let m_in = mag.iter().zip(&shape).map(|(m, s)| m * s).sum::<f64>() / n;
+    let m_sq = mag.iter().map(|m| m * m).sum::<f64>() / n;
+    (m_in, m_sq)
 }
 
 /// The short-circuit current of output `i` (per half or section) with the primary at rated volts,

@@ -526,6 +526,8 @@ struct State {
     /// For each output, the primary current in phase with the volts less its own: what drops the
     /// volts it sees, A.
     rest: Vec<f64>,
+    /// The magnetising current waveform and the primary turns it was taken at.
+    mag: Option<(u32, Vec<f64>)>,
 }
 
 /// The first guess: primary turns from the EMF equation (or the kept winding), outputs by ratio.
@@ -579,6 +581,7 @@ fn initial_state(c: &Ctx) -> State {
         amps: job.windings.iter().map(|w| w.amps).collect(),
         rect: vec![None; job.windings.len()],
         rest: vec![0.0; job.windings.len()],
+        mag: None,
     }
 }
 
@@ -752,7 +755,7 @@ pub fn full_load_volts(
 /// the magnetising current; false when its drop in the primary is past half the primary's volts (no
 /// more power passes: the maximum-power point of the power balance V·I = P + I²·R_p).
 fn primary_current(c: &Ctx, st: &mut State, r: &Round) -> (f64, bool) {
-    let (_, i_p, rest) = loads::primary_wave(c, st, r.core_w, &r.mag);
+    let (i_p, rest) = loads::primary_rms(c, st, r.core_w, &r.mag);
     st.rest = rest;
     let r_p = c.r_p_eff(&r.r_hot);
     (i_p, 2.0 * i_p * r_p <= c.v_p_rms * (1.0 + 1e-12))
@@ -842,7 +845,15 @@ fn one_round(c: &Ctx, st: &mut State) -> (Round, Next) {
         .map(|(r, &n)| r * n as f64)
         .collect();
     let leak = loads::leakage_per_turn2(c, &lay);
-    let mag = loads::magnetising_wave(c, flux, st.n_p, core_w / c.v_p_rms);
+    // The magnetising current depends only on the primary turns (the flux): kept between rounds.
+    let mag = match &st.mag {
+        Some((n, m)) if *n == st.n_p => m.clone(),
+        _ => {
+            let m = loads::magnetising_wave(c, flux, st.n_p, core_w / c.v_p_rms);
+            st.mag = Some((st.n_p, m.clone()));
+            m
+        }
+    };
     let mut round = Round {
         lay,
         r_hot,

@@ -109,7 +109,7 @@ pub fn write(
         _ => {
             let foot = footer_line(p, o);
             let foot = if o.ascii() {
-                foot.replace('·', "-")
+                super::asciify(&foot.replace('·', "-"))
             } else {
                 foot
             };
@@ -570,6 +570,12 @@ fn text_winding(
         w.name,
         volts_amps(p, w)
     );
+    // Symbols become ASCII before the line is measured (± grows to three characters).
+    let head = if look.charset == Charset::Ascii {
+        super::asciify(&head)
+    } else {
+        head
+    };
     let mut s = bold(wrap(&head, width, "", "    ").trim_end());
     s += "\n";
     if !p.verdict.ok {

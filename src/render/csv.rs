@@ -51,6 +51,18 @@ pub struct ScheduleRow {
     pub volts_no_load: f64,
     /// Full-load volts.
     pub volts_full_load: f64,
+    /// RMS current of one half or section, A.
+    pub rms_amps: f64,
+    /// Peak current, A.
+    pub peak_amps: f64,
+    /// A rectified output's mean DC volts at full load (empty for AC).
+    pub dc_volts: Option<f64>,
+    /// A rectified output's mean DC current (empty for AC).
+    pub dc_amps: Option<f64>,
+    /// Leakage inductance referred to the winding, H.
+    pub leakage_h: f64,
+    /// Short-circuit current with the primary at rated volts, A (empty for the primary).
+    pub short_circuit_amps: Option<f64>,
 }
 
 /// Writes the schedule.
@@ -80,6 +92,12 @@ pub fn write_schedule(out: &mut dyn Write, plan: &Plan) -> std::io::Result<()> {
             copper_loss_w: p.copper_loss_w,
             volts_no_load: p.volts_no_load,
             volts_full_load: p.volts_full_load,
+            rms_amps: p.section_amps,
+            peak_amps: p.peak_amps,
+            dc_volts: p.dc.as_ref().map(|d| d.volts_full_load),
+            dc_amps: p.dc.as_ref().map(|d| d.amps),
+            leakage_h: p.leakage_h,
+            short_circuit_amps: p.short_circuit_amps.filter(|a| a.is_finite()),
         })
         .map_err(|e| match e.into_kind() {
             csv::ErrorKind::Io(io) => io,

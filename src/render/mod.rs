@@ -397,6 +397,8 @@ pub fn asciify(s: &str) -> String {
         .replace('≥', ">=")
         .replace('×', "x")
         .replace('Ω', "ohm")
+        .replace('µ', "u")
+        .replace('±', "+/-")
         .replace('√', "sqrt")
         .replace(['–', '—'], "-")
         .replace('·', "*")
