@@ -216,7 +216,10 @@ pub fn solve_rectified(c: &Ctx, st: &mut State, d: &Drop) {
 }
 
 /// The fewest turns of rectified output `i` that reach its target, and the most it reaches when
-/// none does (None when the target is reached).
+/// none does (None when the target is reached). The figure rises with the turns up to a maximum
+/// (the winding's resistance grows as N²): a bracket [lo short, hi reaching] is found by secant
+/// steps from the last round's turns, then closed by secant-guided bisection, so a cold start far
+/// from the answer costs a handful of solves.
 pub fn rectified_turns(c: &Ctx, st: &State, d: &Drop, i: usize) -> (u32, Option<f64>) {
     let w = &c.job.windings[i];
     let Some(dc) = w.dc else {
@@ -224,59 +227,137 @@ pub fn rectified_turns(c: &Ctx, st: &State, d: &Drop, i: usize) -> (u32, Option<
     };
     let v = v_eff(c, st, d, i);
     let warm = st.rect[i].as_ref();
-    let at = |n: u32| dc_figure(&dc, &solve_from(&circuit(c, st, d, i, n, v), warm)).0;
     let target = dc_figure(&dc, st.rect[i].as_ref().unwrap_or(&EMPTY)).1;
-    let mut n = st.turns[i].max(1);
-    let mut f = match &st.rect[i] {
-        Some(s) => dc_figure(&dc, s).0,
-        None => at(n),
+    let max_n = crate::job::MAX_WINDING_TURNS;
+    let mut seen: Vec<(u32, f64)> = Vec::new();
+    let mut at = |n: u32| -> f64 {
+        if let Some(&(_, f)) = seen.iter().find(|(m, _)| *m == n) {
+            return f;
+        }
+        let f = dc_figure(&dc, &solve_from(&circuit(c, st, d, i, n, v), warm)).0;
+        seen.push((n, f));
+        f
     };
-    if f >= target {
-        // Step down while one fewer still reaches it (a jump first when far above; not for a
-        // battery, whose current is far from proportional to the turns).
-        if f > 1.1 * target && n > 4 && dc.filter != Filter::Battery {
-            let guess = ((n as f64) * target / f).floor().max(1.0) as u32;
-            let fg = at(guess);
-            if fg >= target {
-                n = guess;
-                f = fg;
+    let n0 = st.turns[i].clamp(1, max_n);
+    let f0 = match &st.rect[i] {
+        Some(s) => dc_figure(&dc, s).0,
+        None => at(n0),
+    };
+    let (mut lo, mut hi): (Option<(u32, f64)>, Option<(u32, f64)>) = if f0 >= target {
+        (None, Some((n0, f0)))
+    } else {
+        (Some((n0, f0)), None)
+    };
+    // The next point by the secant through two known points, else a proportional guess.
+    let secant = |a: (u32, f64), b: (u32, f64)| -> Option<f64> {
+        let df = b.1 - a.1;
+        (df.abs() > 1e-300 && a.0 != b.0)
+            .then(|| b.0 as f64 + (target - b.1) * (b.0 as f64 - a.0 as f64) / df)
+    };
+    for _ in 0..60 {
+        match (lo, hi) {
+            (Some(l), Some(h)) if h.0 <= l.0 + 1 => return (h.0, None),
+            (Some(l), Some(h)) => {
+                let mid = ((l.0 + h.0) / 2).clamp(l.0 + 1, h.0 - 1);
+                let guess = secant(l, h)
+                    .map(|x| (x.round() as u32).clamp(l.0 + 1, h.0 - 1))
+                    .unwrap_or(mid);
+                // The secant's guess and its neighbour on the far side: one round closes the
+                // bracket when the secant is right.
+                let g = guess;
+                let fg = at(g);
+                if fg >= target {
+                    hi = Some((g, fg));
+                    if g > l.0 + 1 {
+                        let f1 = at(g - 1);
+                        if f1 >= target {
+                            hi = Some((g - 1, f1));
+                        } else {
+                            lo = Some((g - 1, f1));
+                        }
+                    }
+                } else {
+                    lo = Some((g, fg));
+                    if g + 1 < h.0 {
+                        let f1 = at(g + 1);
+                        if f1 >= target {
+                            hi = Some((g + 1, f1));
+                        } else {
+                            lo = Some((g + 1, f1));
+                        }
+                    }
+                }
             }
-        }
-        let _ = f;
-        let mut guard = 0;
-        while n > 1 && guard < 10_000 {
-            if at(n - 1) >= target {
-                n -= 1;
-            } else {
-                break;
+            (None, Some(h)) => {
+                if h.0 <= 1 {
+                    return (1, None);
+                }
+                let below = h.0 - 1;
+                let fb = at(below);
+                if fb < target {
+                    return (h.0, None);
+                }
+                let est = secant((below, fb), h)
+                    .unwrap_or(below as f64 * target / fb.max(1e-12))
+                    .floor()
+                    .clamp(1.0, (below - 1).max(1) as f64) as u32;
+                let fe = at(est);
+                if fe >= target {
+                    hi = Some((est, fe));
+                } else {
+                    lo = Some((est, fe));
+                    hi = Some((below, fb));
+                }
             }
-            guard += 1;
+            (Some(l), None) => {
+                if l.0 >= max_n {
+                    return (l.0, Some(l.1));
+                }
+                let above = l.0 + 1;
+                let fa = at(above);
+                if fa >= target {
+                    return (above, None);
+                }
+                if fa <= l.1 {
+                    // Past the maximum: more turns give less.
+                    return (l.0, Some(l.1));
+                }
+                let est = secant(l, (above, fa))
+                    .unwrap_or(above as f64 * 1.1)
+                    .ceil()
+                    .clamp((above + 1) as f64, max_n as f64) as u32;
+                let fe = at(est);
+                if fe >= target {
+                    hi = Some((est, fe));
+                    lo = Some((above, fa));
+                } else if fe > fa {
+                    lo = Some((est, fe));
+                } else {
+                    // The maximum lies between: walk from `above`.
+                    let mut best = (above, fa);
+                    let mut n = above;
+                    while n < est {
+                        let f = at(n + 1);
+                        if f >= target {
+                            return (n + 1, None);
+                        }
+                        if f <= best.1 {
+                            break;
+                        }
+                        best = (n + 1, f);
+                        n += 1;
+                    }
+                    return (best.0, Some(best.1));
+                }
+            }
+            (None, None) => return (n0, None),
         }
-        return (n, None);
     }
-    // Step up while short; stop when more turns give less (the winding's resistance wins).
-    if f < 0.9 * target && f > 0.0 && dc.filter != Filter::Battery {
-        let guess = ((n as f64) * target / f).ceil().min(1e6) as u32;
-        let fg = at(guess.saturating_sub(1).max(n + 1));
-        if fg < target && fg > f {
-            n = guess.saturating_sub(1).max(n + 1);
-            f = fg;
-        }
+    match (lo, hi) {
+        (_, Some(h)) => (h.0, None),
+        (Some(l), None) => (l.0, Some(l.1)),
+        (None, None) => (n0, None),
     }
-    let mut guard = 0;
-    while guard < 10_000 && n < crate::job::MAX_WINDING_TURNS {
-        let g = at(n + 1);
-        if g >= target {
-            return (n + 1, None);
-        }
-        if g <= f {
-            return (n, Some(f));
-        }
-        n += 1;
-        f = g;
-        guard += 1;
-    }
-    (n, Some(f))
 }
 
 /// An empty solution (for a target read before any solve).
