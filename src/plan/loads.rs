@@ -215,6 +215,9 @@ pub fn solve_rectified(c: &Ctx, st: &mut State, d: &Drop) {
     }
 }
 
+/// Turns and the figure they reach.
+type Point = (u32, f64);
+
 /// The fewest turns of rectified output `i` that reach its target, and the most it reaches when
 /// none does (None when the target is reached). The figure rises with the turns up to a maximum
 /// (the winding's resistance grows as N²): a bracket [lo short, hi reaching] is found by secant
@@ -243,7 +246,7 @@ pub fn rectified_turns(c: &Ctx, st: &State, d: &Drop, i: usize) -> (u32, Option<
         Some(s) => dc_figure(&dc, s).0,
         None => at(n0),
     };
-    let (mut lo, mut hi): (Option<(u32, f64)>, Option<(u32, f64)>) = if f0 >= target {
+    let (mut lo, mut hi): (Option<Point>, Option<Point>) = if f0 >= target {
         (None, Some((n0, f0)))
     } else {
         (Some((n0, f0)), None)
