@@ -151,6 +151,31 @@ mod tests {
         );
     }
 
+    /// Side by side on a split bobbin (Lee's formula with build and traverse exchanged; McLyman):
+    /// sections 20 mm and 24 mm long across a 2 mm divider, a shared build of 8 mm, MLT 180 mm,
+    /// N = 50: L = μ0·2500·0.18·(0.002 + 0.044/3)/0.008 = 1.1781 mH.
+    #[test]
+    fn side_by_side_hand_case() {
+        let a = Placed {
+            start_mm: 0.0,
+            build_mm: 8.0,
+            offset_mm: 0.0,
+            traverse_mm: 20.0,
+            mean_turn_mm: 180.0,
+            section: 1,
+        };
+        let b = Placed {
+            build_mm: 6.0,
+            offset_mm: 22.0,
+            traverse_mm: 24.0,
+            section: 2,
+            ..a
+        };
+        let hand = MU0 * 2500.0 * 0.18 * (0.002 + 0.044 / 3.0) / 0.008;
+        assert_relative_eq!(between_h(&a, &b, 50.0, 1.0), hand, max_relative = 1e-12);
+        assert_relative_eq!(hand, 1.1781e-3, max_relative = 1e-4);
+    }
+
     /// Referred to the other winding, the leakage scales with the turns ratio squared.
     #[test]
     fn referred_by_turns_squared() {
