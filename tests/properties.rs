@@ -309,3 +309,50 @@ proptest! {
         prop_assert!(!carries(&j, c.max_va * 1.02), "{} VA carried 2 % above capacity", c.max_va);
     }
 }
+
+proptest! {
+    #![proptest_config(config(48))]
+
+    /// Any rectified output inside the accepted ranges plans without a panic; the solver reports a
+    /// converged periodic state and finite DC figures, and the plan's JSON holds no NaN.
+    #[test]
+    fn rectified_outputs_plan_to_finite_figures(
+        rect in 0usize..3,
+        filter in 0usize..4,
+        dc_volts in 1.0..400.0f64,
+        dc_amps in 0.01..40.0f64,
+        cap_uf in 10.0..100_000.0f64,
+        choke_h in 0.001..5.0f64,
+        wf in 0usize..3,
+    ) {
+        let rect_word = ["bridge", "centre-tap", "half-wave"][rect];
+        let mut filter_word = ["capacitor", "choke", "battery", "resistive"][filter];
+        if rect_word == "half-wave" && filter_word == "choke" {
+            filter_word = "capacitor";
+        }
+        let waveform = ["waveform = \"sine\"", "waveform = \"square\"", "waveform = \"quasi-square\"\nduty = 0.7"][wf];
+        let mut w = format!(
+            "[[winding]]\nname = \"dc\"\nrole = \"secondary\"\nrectifier = \"{rect_word}\"\nfilter = \"{filter_word}\"\ndc_volts = {dc_volts}\ndc_amps = {dc_amps}\n"
+        );
+        if rect_word == "centre-tap" {
+            w += "centre_tap = true\n";
+        }
+        if matches!(filter_word, "capacitor" | "choke") {
+            w += &format!("capacitor_uf = {cap_uf}\n");
+        }
+        if filter_word == "choke" {
+            w += &format!("choke_h = {choke_h}\nchoke_ohm = 0.5\n");
+        }
+        let primary_volts = if wf == 0 { 230.0 } else { 24.0 };
+        let text = format!(
+            "[core]\ntongue_mm = 38\nstack_mm = 50\nwindow_width_mm = 19\nwindow_height_mm = 57\n[supply]\nfrequency_hz = 50\n{waveform}\n[[winding]]\nname = \"p\"\nrole = \"primary\"\nvolts = {primary_volts}\n{w}"
+        );
+        let p = plan(&job(&text));
+        let d = p.windings[1].dc.as_ref().expect("a rectified output's figures");
+        prop_assert!(d.converged, "{} {}: not converged", rect_word, filter_word);
+        prop_assert!(d.volts_full_load.is_finite() && d.amps.is_finite() && d.rms_amps.is_finite());
+        prop_assert!(p.drive.primary_amps.is_finite());
+        let v = serde_json::to_value(plan_json(&p, DEFAULT_SPARE)).expect("json");
+        check_finite(&v, "plan");
+    }
+}

@@ -325,6 +325,9 @@ pub fn rectified_turns(c: &Ctx, st: &State, d: &Drop, i: usize) -> (u32, Option<
                     // Past the maximum: more turns give less.
                     return (l.0, Some(l.1));
                 }
+                if above >= max_n {
+                    return (above, Some(fa));
+                }
                 let est = secant(l, (above, fa))
                     .unwrap_or(above as f64 * 1.1)
                     .ceil()
