@@ -703,6 +703,34 @@ fn solve(mut a: Vec<Vec<f64>>, mut b: Vec<f64>) -> Option<Vec<f64>> {
     x.iter().all(|v| v.is_finite()).then_some(x)
 }
 
+/// Where the shooting starts: a warm start's state, else the capacitor near the peak (a choke's
+/// current at 60 % of it) with no current in the winding.
+fn first_state(c: &Circuit, warm: Option<&Solution>) -> State {
+    let peak = c.emf_peak_v.abs();
+    let nvd = c.rectifier.diodes() * c.diode_v;
+    let v0 = match c.filter {
+        Filter::Capacitor => 0.9 * (peak - nvd).max(0.0),
+        Filter::Choke => 0.6 * (peak - nvd).max(0.0),
+        _ => 0.0,
+    };
+    let i0 = match c.filter {
+        Filter::Choke => v0 / c.load_ohm,
+        _ => 0.0,
+    };
+    match warm {
+        Some(w) if w.converged => State {
+            iw: w.start[0],
+            ich: w.start[1],
+            v: w.start[2],
+        },
+        _ => State {
+            iw: -i0,
+            ich: i0,
+            v: v0,
+        },
+    }
+}
+
 /// Solves the circuit's periodic steady state.
 pub fn solve_circuit(c: &Circuit) -> Solution {
     solve_from(c, None)
@@ -732,29 +760,8 @@ pub fn solve_from(c: &Circuit, warm: Option<&Solution>) -> Solution {
         };
         pack(c, &y)
     };
+    let start = first_state(c, warm);
     let peak = c.emf_peak_v.abs();
-    let nvd = c.rectifier.diodes() * c.diode_v;
-    let v0 = match c.filter {
-        Filter::Capacitor => 0.9 * (peak - nvd).max(0.0),
-        Filter::Choke => 0.6 * (peak - nvd).max(0.0),
-        _ => 0.0,
-    };
-    let i0 = match c.filter {
-        Filter::Choke => v0 / c.load_ohm,
-        _ => 0.0,
-    };
-    let start = match warm {
-        Some(w) if w.converged => State {
-            iw: w.start[0],
-            ich: w.start[1],
-            v: w.start[2],
-        },
-        _ => State {
-            iw: -i0,
-            ich: i0,
-            v: v0,
-        },
-    };
     let mut p = pack(c, &start);
     let scale = |p: &[f64]| -> f64 {
         p.iter()

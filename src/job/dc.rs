@@ -116,6 +116,34 @@ pub(super) fn dc_load(
             ))
         }
     };
+    let (capacitor_uf, choke_h, choke_ohm, battery_ohm) =
+        filter_parts(c, rw, filter, (dc_volts, dc_amps), key)?;
+    let diode_drop_v = match rw.diode_drop_v {
+        Some(v) => c.range(&key("diode_drop_v"), v, 0.0, true, 5.0, "V")?,
+        None => DIODE_DROP_V,
+    };
+    Ok(Some(DcLoad {
+        rectifier,
+        filter,
+        dc_volts,
+        dc_amps,
+        capacitor_uf,
+        choke_h,
+        choke_ohm,
+        battery_ohm,
+        diode_drop_v,
+    }))
+}
+
+/// The filter's parts: capacitor (µF), choke (H) and its resistance (Ω), battery resistance (Ω);
+/// each required by, or refused without, the filter it belongs to.
+fn filter_parts(
+    c: &Checker,
+    rw: &RawWinding,
+    filter: Filter,
+    (dc_volts, dc_amps): (f64, f64),
+    key: &dyn Fn(&str) -> String,
+) -> Result<(f64, f64, f64, f64)> {
     let needs_cap = matches!(filter, Filter::Capacitor | Filter::Choke);
     let capacitor_uf = match (rw.capacitor_uf, needs_cap) {
         (Some(cap), true) => c.range(&key("capacitor_uf"), cap, 0.0, false, 10_000_000.0, "µF")?,
@@ -182,21 +210,7 @@ pub(super) fn dc_load(
         }
         (None, _) => BATTERY_OHM,
     };
-    let diode_drop_v = match rw.diode_drop_v {
-        Some(v) => c.range(&key("diode_drop_v"), v, 0.0, true, 5.0, "V")?,
-        None => DIODE_DROP_V,
-    };
-    Ok(Some(DcLoad {
-        rectifier,
-        filter,
-        dc_volts,
-        dc_amps,
-        capacitor_uf,
-        choke_h,
-        choke_ohm,
-        battery_ohm,
-        diode_drop_v,
-    }))
+    Ok((capacitor_uf, choke_h, choke_ohm, battery_ohm))
 }
 
 /// A capacitor that holds the ripple of a full-wave capacitor filter near 10 %: C = I/(2·f·ΔV) at
